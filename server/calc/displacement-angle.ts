@@ -12,7 +12,7 @@ export type { PointFrame } from './relative-history';
 export interface DisplacementAngleOptions {
   /** Increments before the relative displacement first reaches this value are ignored (neck not yet formed). Default 0, input length unit. */
   readonly minRelativeDisplacement?: number;
-  /** Odd moving-median window over frames applied to the relative displacement before differencing. Default 1 (off). */
+  /** Odd moving-median window (in increments) over the increment rates Δ/Δframe, per component, before the angle. Default 1 (off). */
   readonly smoothingWindow?: number;
   /** Plateau band half-width in degrees: all plateau angles within ±this of the band centre. Default 1. */
   readonly plateauHalfBandDeg?: number;
@@ -39,6 +39,7 @@ export const RELATIVE_DISPLACEMENT_DEFINITION =
 
 /** One increment between consecutive usable frames. */
 export interface AngleIncrement extends AnglePoint {
+  /** raw increment of the relative displacement (angleDeg uses the smoothed direction when smoothing is on) */
   readonly dx: number;
   readonly dy: number;
   /** cumulative path length Σ|Δ| up to toFrame (noise adds to it; shown for reference) */
@@ -86,37 +87,47 @@ export function relativeDisplacementAngle(rows: readonly PointFrame[], options: 
     reversedOrder = oriented.reversed;
     if (oriented.warning) warnings.push(oriented.warning);
   }
-  if (parameters.smoothingWindow > 1) {
-    const sx = movingMedian(samples.map((s) => s.dx), parameters.smoothingWindow);
-    const sy = movingMedian(samples.map((s) => s.dy), parameters.smoothingWindow);
-    samples = samples.map((s, i) => ({ frame: s.frame, dx: sx[i], dy: sy[i] }));
-  }
   const gapStarts = new Set(clean.gaps.map((g) => g.afterFrame));
+  const raw = samples.slice(1).map((b, i) => ({ a: samples[i], b, dx: b.dx - samples[i].dx, dy: b.dy - samples[i].dy }));
+  const direction = smoothedDirections(raw, parameters.smoothingWindow);
   const curve: AngleIncrement[] = [];
   let path = 0;
   let reached = false;
-  for (let i = 1; i < samples.length; i++) {
-    const a = samples[i - 1];
-    const b = samples[i];
-    const dx = b.dx - a.dx;
-    const dy = b.dy - a.dy;
+  raw.forEach(({ a, b, dx, dy }, i) => {
     path += Math.hypot(dx, dy);
     const relativeDisplacement = Math.hypot(b.dx - samples[0].dx, b.dy - samples[0].dy);
     reached ||= relativeDisplacement >= parameters.minRelativeDisplacement;
-    const zero = dx === 0 && dy === 0;
+    const [sx, sy] = direction[i];
+    const zero = sx === 0 && sy === 0;
     curve.push({
       fromFrame: a.frame,
       toFrame: b.frame,
       dx,
       dy,
-      angleDeg: zero ? Number.NaN : toDeg(Math.atan2(dy, dx)),
+      angleDeg: zero ? Number.NaN : toDeg(Math.atan2(sy, sx)),
       relativeDisplacement,
       pathLength: path,
       spansGap: gapStarts.has(a.frame),
       status: zero ? 'zero-length' : reached ? 'used' : 'below-threshold',
     });
-  }
+  });
   return summarise(curve, parameters, { clean, reversedOrder, warnings });
+}
+
+/**
+ * Increment directions, optionally smoothed. The moving median runs over the increment RATES
+ * (Δx/Δframe, Δy/Δframe): a median over positions would do nothing, because positions rise steadily by
+ * more than the noise and the median of a monotone window is its centre value; over rates it removes
+ * both isolated spikes and part of the scatter. Dividing by Δframe keeps an increment across a gap
+ * comparable with its neighbours; the direction is unchanged by that scaling.
+ */
+function smoothedDirections(raw: ReadonlyArray<{ a: { frame: number }; b: { frame: number }; dx: number; dy: number }>, window: number): Array<[number, number]> {
+  if (window === 1) return raw.map((r) => [r.dx, r.dy]);
+  const rx = raw.map((r) => r.dx / (r.b.frame - r.a.frame));
+  const ry = raw.map((r) => r.dy / (r.b.frame - r.a.frame));
+  const mx = movingMedian(rx, window);
+  const my = movingMedian(ry, window);
+  return mx.map((x, i) => [x, my[i]]);
 }
 
 function summarise(

@@ -22,7 +22,7 @@ export function movingMedian(values: readonly number[], window: number): number[
     });
   }
   if (window > values.length) {
-    throw new CalcInputError(`smoothingWindow = ${window} is longer than the ${values.length} usable frames`, {
+    throw new CalcInputError(`smoothingWindow = ${window} is longer than the series it smooths (${values.length} values)`, {
       field: 'smoothingWindow',
       value: window,
     });
