@@ -1,4 +1,4 @@
-import { HttpClient, HttpContext } from '@angular/common/http';
+import { HttpClient, HttpContext, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { Observable, firstValueFrom, map, tap } from 'rxjs';
 import type { LoginBody, PublicUser } from '../../../shared/auth';
@@ -34,7 +34,7 @@ export class AuthStore {
       (error: unknown) => {
         // 401 = nobody signed in (the normal case on a fresh visit). Other failures were already shown
         // by the error interceptor; either way the app starts signed out rather than not at all.
-        if (!(error instanceof ApiError)) console.error('[Specimetry] /api/me failed', error);
+        if (!(error instanceof ApiError || error instanceof HttpErrorResponse)) console.error('[Specimetry] /api/me failed', error);
         this.current.set(null);
       },
     );
