@@ -155,3 +155,88 @@ export interface LinearModelResult {
   /** residual (observed - fitted) of every run, in input order */
   residuals: Float64Array;
 }
+
+/** An F test (Welch, Levene, Brown–Forsythe). */
+export interface FTestResult {
+  f: number;
+  df1: number;
+  df2: number;
+  p: number;
+}
+
+/** A chi-square test (Bartlett, Kruskal–Wallis). */
+export interface ChiSquareResult {
+  statistic: number;
+  df: number;
+  p: number;
+}
+
+/** Shapiro–Wilk W and its p-value. */
+export interface NormalityResult {
+  w: number;
+  p: number;
+}
+
+/** One Tukey HSD comparison; diff = mean(b) - mean(a), with simultaneous CI and adjusted p. */
+export interface TukeyComparison {
+  a: string;
+  b: string;
+  diff: number;
+  lower: number;
+  upper: number;
+  p: number;
+}
+
+/** The optional tests of an analysis; present only when asked for. */
+export type TestName = 'tukey' | 'welch' | 'levene' | 'brown-forsythe' | 'bartlett' | 'kruskal' | 'shapiro';
+
+/**
+ * Results of the requested tests. One-factor tests (all but shapiro) compare the cells of the
+ * analysed factors (each combination of levels is one group); shapiro tests the model's residuals.
+ */
+export interface AnalysisTests {
+  tukey?: TukeyComparison[];
+  welch?: FTestResult;
+  levene?: FTestResult;
+  brownForsythe?: FTestResult;
+  bartlett?: ChiSquareResult;
+  kruskal?: ChiSquareResult;
+  shapiro?: NormalityResult;
+}
+
+/** Everything one analysis returns (see analyse.ts). */
+export interface AnalysisResult {
+  engineVersion: string;
+  response: string;
+  factors: string[];
+  /** the terms fitted, after dropping omitted ones */
+  terms: string[];
+  ssType: SsType;
+  /** effect rows in model order, then the residual row */
+  anova: AnovaRow[];
+  /** requested terms without a row, and why */
+  omitted: OmittedTerm[];
+  /** messages about the fit, the data and the tests, in the order they arose */
+  notes: string[];
+  /** always-present reminders on how far the numbers go */
+  cautions: string[];
+  model: {
+    residualDf: number;
+    mse: number;
+    residualSd: number;
+    rSquared: number;
+    rank: number;
+    balanced: boolean;
+  };
+  /** present when exactly one factor is analysed */
+  oneWay?: OneWaySummary;
+  descriptives: DescriptivesResult;
+  plots: PlotData;
+  /** fitted value per input row, in input order */
+  fitted: number[];
+  /** residual per input row, in input order */
+  residuals: number[];
+  tests: AnalysisTests;
+  /** the decimal offset subtracted from the responses before the analysis (see decimal-input.ts) */
+  responseOffset: string;
+}
