@@ -170,6 +170,16 @@ describe('bad input', () => {
     expect(() => relativeDisplacementAngle(rows, { minPlateauIncrements: 1 })).toThrow(CalcInputError);
   });
 
+  it('leaves out increments of zero length (no direction) and says so', () => {
+    const rows = history();
+    rows[8] = { ...rows[8], u1x: rows[7].u1x, u1y: rows[7].u1y, u2x: rows[7].u2x, u2y: rows[7].u2y };
+    const res = relativeDisplacementAngle(rows);
+    expect(res.curve[7].status).toBe('zero-length');
+    expect(Number.isNaN(res.curve[7].angleDeg)).toBe(true);
+    expect(res.warnings.join(' ')).toMatch(/1 increment\(s\) of zero length/);
+    expect(() => relativeDisplacementAngle(history().slice(0, 4), { smoothingWindow: 5 })).toThrow(/smoothingWindow = 5 is longer/);
+  });
+
   it('says so when nothing reaches the threshold, or no plateau exists', () => {
     const none = relativeDisplacementAngle(history(), { minRelativeDisplacement: 100 });
     expect(none.maximum).toBeNull();

@@ -45,6 +45,7 @@ export interface AngleIncrement extends AnglePoint {
   /** cumulative path length Σ|Δ| up to toFrame (noise adds to it; shown for reference) */
   readonly pathLength: number;
   readonly spansGap: boolean;
+  /** 'zero-length' increments have no direction: their angleDeg is NaN and they take no part in max/plateau */
   readonly status: 'used' | 'below-threshold' | 'zero-length';
 }
 

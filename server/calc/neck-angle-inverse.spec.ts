@@ -63,6 +63,20 @@ describe('solveHFromAngle (F, G, N given)', () => {
     expect(degenerate).toBeLessThan(5);
   });
 
+  it('matches the hand-derived load-along-RD closed form for H (NECK-THEORY.md §5)', () => {
+    // H = [FG·T(1 − PT) − 2NPG] / [(F + G)·T(PT − 1) + 2N(P − T)], T = tan θ, P = tan φ, derived by hand
+    // from tan φ = T(D + 2NH)/(D T² + 2N(G + H)); an algebraic route independent of the module's.
+    const F = 0.41;
+    const G = 0.37;
+    const N = 1.3;
+    for (const [theta, phi] of [[50, 30], [65, 38], [80, 25]]) {
+      const T = Math.tan(theta / DEG);
+      const P = Math.tan(phi / DEG);
+      const expected = (F * G * T * (1 - P * T) - 2 * N * P * G) / ((F + G) * T * (P * T - 1) + 2 * N * (P - T));
+      expect(solveHFromAngle({ neckAngleDeg: theta, relativeDisplacementAngleDeg: phi }, { F, G, N }).H).toBeCloseTo(expected, 12);
+    }
+  });
+
   it('works on an un-normalised scale and reports the G + H = 1 set', () => {
     const c = hillFromLankford({ r0: 1.8, r45: 1.2, r90: 2.3 });
     const k = 3.7;
@@ -101,6 +115,14 @@ describe('solveNormalAnisotropyFromAngle', () => {
     for (const r of [0.5, 1, 2, 3]) {
       const psi = Math.atan(Math.sqrt((1 + r) / r)) * DEG;
       expect(solveNormalAnisotropyFromAngle({ neckAngleDeg: psi, relativeDisplacementAngleDeg: 90 - psi }).r).toBeCloseTo(r, 11);
+    }
+  });
+
+  it('agrees with the hand-derived forward form tan φ = tan θ (1 + 2r)/(tan²θ + 2 + 2r) (NECK-THEORY.md §6)', () => {
+    for (const [r, theta] of [[0.6, 45], [1.7, 62], [3, 75]]) {
+      const T = Math.tan(theta / DEG);
+      const phi = Math.atan((T * (1 + 2 * r)) / (T * T + 2 + 2 * r)) * DEG;
+      expect(solveNormalAnisotropyFromAngle({ neckAngleDeg: theta, relativeDisplacementAngleDeg: phi }).r).toBeCloseTo(r, 11);
     }
   });
 
