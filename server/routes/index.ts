@@ -1,6 +1,13 @@
 import type { Router } from 'express';
 import type { AppContext } from '../context.js';
+import { attachmentsRouter } from './attachments.js';
+import { auditRouter } from './audit.js';
+import { exportsRouter } from './exports.js';
+import { importsRouter } from './imports.js';
+import { runsRouter } from './runs.js';
+import { studiesRouter } from './studies.js';
 import { tokensRouter } from './tokens.js';
+import { resultsRouter } from './results.js';
 
 /**
  * Feature routers (studies, runs, analyses, tokens, ...) register here, each exporting
@@ -9,5 +16,12 @@ import { tokensRouter } from './tokens.js';
 export function extraRouters(ctx: AppContext): Router[] {
   return [
     tokensRouter(ctx), // first: its token-use audit middleware must see every feature call
+    studiesRouter(ctx),
+    runsRouter(ctx),
+    importsRouter(ctx),
+    exportsRouter(ctx),
+    attachmentsRouter(ctx),
+    auditRouter(ctx),
+    resultsRouter(ctx),
   ];
 }

@@ -1,6 +1,11 @@
+import { mkdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
 import type { RouteInfo } from '../../server/auth/route-list.js';
-import type { Role } from '../../shared/roles.js';
+import { addAttachment, attachmentDir } from '../../server/services/attachments.js';
+import { createImport } from '../../server/services/imports.js';
+import type { Role, StudyRole } from '../../shared/roles.js';
 import type { TestApp } from './harness.js';
+import { actorFor, makeStudy } from './study-fixtures.js';
 
 export type Expectation = 'allowed' | 'unauthenticated' | 'forbidden' | 'hidden';
 
@@ -13,20 +18,36 @@ export interface AccessFixtures {
 }
 
 /**
- * Builds the data the policy walk needs and says what each caller should get. Study routes are
- * answered from the membership the fixture sets up (extended with the studies module).
+ * The study of the policy walk: engineer = owner, statistician = reviewer, supervisor = viewer, with
+ * runs, an open import and an attachment so that every :param names something real. Admins pass every
+ * study check; a non-member would get 404 (`hidden`; exercised in studies.spec.ts, since all three
+ * non-admin demo accounts are members here).
  */
-export async function accessFixtures(_t: TestApp): Promise<AccessFixtures> {
+export const WALK_MEMBERSHIP: Partial<Record<Role, StudyRole>> = { engineer: 'owner', statistician: 'reviewer', supervisor: 'viewer' };
+
+export async function accessFixtures(t: TestApp): Promise<AccessFixtures> {
+  const study = makeStudy(t, { title: 'Access walk study' });
+  const engineer = actorFor(t, 'engineer');
+  const runId = study.runIds[0]!;
+  const imp = createImport(t.ctx.db, engineer, study.id, { name: 'walk.csv', buffer: Buffer.from('run,H\nR001,0.5\n') }, { headers: ['run', 'H'], rows: [['R001', '0.5']] });
+  const tmp = path.join(attachmentDir(t.ctx.config.dataDir), 'tmp');
+  mkdirSync(tmp, { recursive: true });
+  const file = path.join(tmp, 'walk-upload');
+  writeFileSync(file, 'walk attachment\n');
+  const att = await addAttachment(t.ctx.db, t.ctx.config.dataDir, engineer, study.id, runId, { path: file, originalname: 'walk.txt', size: 16 }, 'raw');
   return {
-    params: { id: 1 },
+    params: { id: study.id, runId, importId: imp.id, attachmentId: att.id },
     skip: new Set(),
     expect(route, who) {
       const p = route.policy!;
       if (p.kind === 'public') return 'allowed';
       if (who === 'anonymous') return 'unauthenticated';
       if (p.kind === 'roles') return !p.roles || p.roles.includes(who) ? 'allowed' : 'forbidden';
-      // Study routes: admins pass; others depend on membership, filled in by the studies fixtures.
-      return who === 'admin' ? 'allowed' : 'hidden';
+      if (who === 'admin') return 'allowed';
+      const role = WALK_MEMBERSHIP[who];
+      if (!role) return 'hidden';
+      if (!p.studyRoles.includes(role)) return 'forbidden';
+      return !p.roles || p.roles.includes(who) ? 'allowed' : 'forbidden';
     },
   };
 }

@@ -1,0 +1,60 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { runBatchBody, runPatchBody, runRemoveBody, runRestoreBody, runsQuery } from '../../shared/runs.js';
+import type { AppContext } from '../context.js';
+import { ALL_STUDY_ROLES, EDITOR_ROLES, studyMember } from '../auth/policy.js';
+import { actorOf } from '../services/actor.js';
+import { listAudit } from '../services/audit-query.js';
+import { editRuns } from '../services/run-edits.js';
+import { runSheet } from '../services/run-sheet.js';
+import { getRun, removeRun, restoreRun } from '../services/runs.js';
+
+const runIdParam = z.coerce.number({ message: 'runId must be a number' }).int().positive();
+
+/** The run sheet: read, per-cell edit, multi-cell batch, soft removal, per-run history. */
+export function runsRouter(ctx: AppContext): Router {
+  const r = Router();
+  const db = () => ctx.db;
+  const read = () => studyMember(db, { studyRoles: ALL_STUDY_ROLES });
+  const edit = () => studyMember(db, { studyRoles: EDITOR_ROLES, scope: 'write' });
+
+  r.get('/studies/:id/runs', read(), (req, res) => {
+    const q = runsQuery.parse(req.query);
+    const sheet = runSheet(ctx.db, req.study!.id, q.includeRemoved === '1' || q.includeRemoved === 'true');
+    // Serialised by hand once: 10 000 runs are a few MB and res.json would stringify the same way.
+    res.type('application/json').send(JSON.stringify(sheet));
+  });
+
+  r.post('/studies/:id/runs/batch', edit(), (req, res) => {
+    const body = runBatchBody.parse(req.body);
+    const out = editRuns(ctx.db, actorOf(req), req.study!.id, body.edits, { pathOf: (i) => `edits.${i}`, source: 'batch', reason: body.reason ?? null });
+    res.json({ runs: out.runs, changes: out.changes, warnings: out.warnings, undo: { edits: out.undo } });
+  });
+
+  r.patch('/studies/:id/runs/:runId', edit(), (req, res) => {
+    const runId = runIdParam.parse(req.params['runId']);
+    const { reason, ...fields } = runPatchBody.parse(req.body);
+    const out = editRuns(ctx.db, actorOf(req), req.study!.id, [{ ...fields, runId }], { pathOf: () => '', source: 'sheet', reason: reason ?? null });
+    res.json({ run: out.runs[0] ?? getRun(ctx.db, req.study!.id, runId), changes: out.changes, warnings: out.warnings });
+  });
+
+  r.delete('/studies/:id/runs/:runId', edit(), (req, res) => {
+    const runId = runIdParam.parse(req.params['runId']);
+    const body = runRemoveBody.parse(req.body ?? {});
+    res.json({ run: removeRun(ctx.db, actorOf(req), req.study!.id, runId, body.reason, body.version) });
+  });
+
+  r.post('/studies/:id/runs/:runId/restore', edit(), (req, res) => {
+    const runId = runIdParam.parse(req.params['runId']);
+    const body = runRestoreBody.parse(req.body);
+    res.json({ run: restoreRun(ctx.db, actorOf(req), req.study!.id, runId, body.reason) });
+  });
+
+  r.get('/studies/:id/runs/:runId/history', read(), (req, res) => {
+    const runId = runIdParam.parse(req.params['runId']);
+    getRun(ctx.db, req.study!.id, runId);
+    res.json(listAudit(ctx.db, req.study!.id, { runId, limit: 5000 }));
+  });
+
+  return r;
+}

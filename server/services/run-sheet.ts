@@ -1,0 +1,144 @@
+import type { Db } from '../db/client.js';
+import { loadSetup, type ResponseRow, type Setup } from './study-setup.js';
+
+/**
+ * Reading the run sheet. One query per table (runs, values, measurements, attachment counts) and a
+ * join in memory keyed by run id: 10 000 runs x a few responses serialise in tens of milliseconds,
+ * where per-run queries would take seconds. The analysis (issue 5) reads runs through `loadRuns` too,
+ * so both see the same `excluded` rule.
+ */
+
+export interface CellValue {
+  text: string;
+  value: number;
+}
+export interface SheetValue extends CellValue {
+  outOfRange: boolean;
+}
+
+export interface Run {
+  id: number;
+  code: string;
+  standardOrder: number;
+  runOrder: number;
+  block: string;
+  centrePoint: boolean;
+  settings: Record<string, string>;
+  measured: Record<string, CellValue>;
+  values: Record<string, SheetValue>;
+  outcomeId: number | null;
+  outcomeReason: string;
+  /** Not counted in the analysis: the outcome is marked not valid, or the run was removed. */
+  excluded: boolean;
+  operator: string;
+  testedOn: string;
+  notes: string;
+  attachmentCount: number;
+  removedAt: number | null;
+  removedReason: string | null;
+  version: number;
+  updatedAt: number;
+}
+
+interface RunRowRaw {
+  id: number;
+  code: string;
+  standardOrder: number;
+  runOrder: number;
+  block: string;
+  centrePoint: number;
+  settings: string;
+  outcomeId: number | null;
+  outcomeReason: string;
+  operator: string;
+  testedOn: string;
+  notes: string;
+  removedAt: number | null;
+  removedReason: string | null;
+  version: number;
+  updatedAt: number;
+}
+
+export function isOutOfRange(r: Pick<ResponseRow, 'rangeMin' | 'rangeMax'>, value: number): boolean {
+  return (r.rangeMin !== null && value < r.rangeMin) || (r.rangeMax !== null && value > r.rangeMax);
+}
+
+/**
+ * Runs of a study in run order. `ids` restricts to those runs (for returning what an edit changed);
+ * removed runs are left out unless asked for or named in `ids`.
+ */
+export function loadRuns(db: Db, studyId: number, opts: { includeRemoved?: boolean; ids?: number[]; setup?: Setup } = {}): Run[] {
+  const setup = opts.setup ?? loadSetup(db, studyId);
+  const idFilter = opts.ids ? ' and r.id in (select value from json_each(?))' : '';
+  const removedFilter = opts.includeRemoved || opts.ids ? '' : ' and r.removed_at is null';
+  const args: (number | string)[] = opts.ids ? [studyId, JSON.stringify(opts.ids)] : [studyId];
+  const c = db.$client;
+  const rows = c
+    .prepare(
+      `select r.id, r.code, r.standard_order as standardOrder, r.run_order as runOrder, r.block, r.centre_point as centrePoint,
+         r.settings, r.outcome_id as outcomeId, r.outcome_reason as outcomeReason, r.operator, r.tested_on as testedOn, r.notes,
+         r.removed_at as removedAt, r.removed_reason as removedReason, r.version, r.updated_at as updatedAt
+       from runs r where r.study_id = ?${idFilter}${removedFilter} order by r.run_order, r.id`,
+    )
+    .all(...args) as RunRowRaw[];
+  const invalidOutcomes = new Set(setup.outcomes.filter((o) => !o.valid).map((o) => o.id));
+  const byId = new Map<number, Run>();
+  const out: Run[] = rows.map((r) => {
+    const run: Run = {
+      ...r,
+      centrePoint: r.centrePoint === 1,
+      settings: JSON.parse(r.settings) as Record<string, string>,
+      measured: {},
+      values: {},
+      excluded: r.removedAt !== null || (r.outcomeId !== null && invalidOutcomes.has(r.outcomeId)),
+      attachmentCount: 0,
+    };
+    byId.set(r.id, run);
+    return run;
+  });
+  if (out.length === 0) return out;
+
+  const responseById = new Map(setup.responses.map((x) => [x.id, x]));
+  const factorById = new Map(setup.factors.map((x) => [x.id, x]));
+  const joinFilter = opts.ids ? ' and r.id in (select value from json_each(?))' : '';
+  const values = c
+    .prepare(`select v.run_id as runId, v.response_id as responseId, v.text, v.value from run_values v join runs r on r.id = v.run_id where r.study_id = ?${joinFilter}`)
+    .raw()
+    .all(...args) as [number, number, string, number][];
+  for (const [runId, responseId, text, value] of values) {
+    const run = byId.get(runId);
+    const resp = responseById.get(responseId);
+    if (run && resp) run.values[resp.symbol] = { text, value, outOfRange: isOutOfRange(resp, value) };
+  }
+  const measured = c
+    .prepare(`select m.run_id, m.factor_id, m.text, m.value from run_measurements m join runs r on r.id = m.run_id where r.study_id = ?${joinFilter}`)
+    .raw()
+    .all(...args) as [number, number, string, number][];
+  for (const [runId, factorId, text, value] of measured) {
+    const run = byId.get(runId);
+    const f = factorById.get(factorId);
+    if (run && f) run.measured[f.symbol] = { text, value };
+  }
+  const counts = c
+    .prepare('select run_id, count(*) from attachments where study_id = ? and deleted_at is null and run_id is not null group by run_id')
+    .raw()
+    .all(studyId) as [number, number][];
+  for (const [runId, n] of counts) {
+    const run = byId.get(runId);
+    if (run) run.attachmentCount = n;
+  }
+  return out;
+}
+
+export function runSheet(db: Db, studyId: number, includeRemoved: boolean) {
+  const setup = loadSetup(db, studyId);
+  const runs = loadRuns(db, studyId, { includeRemoved: true, setup });
+  const live = runs.filter((r) => r.removedAt === null);
+  const counts = {
+    planned: live.length,
+    recorded: live.filter((r) => Object.keys(r.values).length > 0).length,
+    invalid: live.filter((r) => r.excluded).length,
+    removed: runs.length - live.length,
+  };
+  return { studyId, ...setup, counts, runs: includeRemoved ? runs : live };
+}
