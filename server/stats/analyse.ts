@@ -61,6 +61,17 @@ function interceptOnly(table: CellTable, y: Float64Array): LinearModelResult {
   };
 }
 
+/** Whether the exact decimal reading mattered: the offset dwarfs the spread (>= 3 shared digits). */
+function sharesLeadingDigits(y: Float64Array, offset: number): boolean {
+  let min = Infinity;
+  let max = -Infinity;
+  for (const v of y) {
+    if (v < min) min = v;
+    if (v > max) max = v;
+  }
+  return max > min && Math.abs(offset) >= 1e3 * (max - min);
+}
+
 function oneWaySummary(model: LinearModelResult, totalSs: number): OneWaySummary {
   const effect = model.anova[0] as AnovaEffectRow;
   const etaSq = effect.ss / totalSs;
@@ -88,7 +99,7 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
   const names = data.factors.map((f) => f.name);
   const notes: string[] = [];
   let terms = parseTerms(request.terms ?? fullFactorialTerms(names), names).map((t) => t.name);
-  if (data.offsetText !== '0') {
+  if (sharesLeadingDigits(data.y, data.offset)) {
     notes.push(`responses were read as exact decimals relative to ${data.offsetText} (the ANOVA does not depend on a common shift)`);
   }
   const top = names.join(':');
