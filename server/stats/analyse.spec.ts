@@ -99,6 +99,14 @@ describe('analyse', () => {
     expect(r.descriptives.overall.mean).toBeCloseTo(1000000000000.4, 3);
   });
 
+  it('adds the dispersion analysis of the cells when a goal is given', () => {
+    // R 4.2.2 cell SDs of warpbreaks (warpbreaks.json cellSummary): A:L sd 18.0977285253641
+    const r = analyse({ rows, response: 'breaks', factors: ['wool', 'tension'], dispersion: { kind: 'smaller' } });
+    const al = r.dispersion?.cells.find((c) => c.key.wool === 'A' && c.key.tension === 'L');
+    expect(relErr(al?.sd as number, 18.0977285253641)).toBeLessThan(1e-12);
+    expect(relErr(al?.lnVariance as number, Math.log(18.0977285253641 ** 2))).toBeLessThan(1e-12);
+  });
+
   it('no factor: residual row only, Shapiro–Wilk on the centred response', () => {
     // common practice, no source: intercept-only model, residual df N - 1
     const r = analyse({ rows, response: 'breaks', factors: [], tests: ['shapiro'] });

@@ -12,11 +12,12 @@
  * 4. descriptives.ts, plot-data.ts, analysis-tests.ts.
  */
 import { prepareData, type AnalysisRow } from './analysis-input.js';
-import { runTests } from './analysis-tests.js';
+import { cellGroups, runTests } from './analysis-tests.js';
 import { fSentence } from './anova-one-way.js';
 import { twoWayAnova } from './anova-two-way.js';
 import { buildCellTable, type CellTable } from './cell-stats.js';
 import { describe } from './descriptives.js';
+import { dispersionAnalysis, type DispersionGoal } from './dispersion.js';
 import { StatsInputError } from './errors.js';
 import { fitLinearModel, validateModelInput } from './linear-model.js';
 import { fullFactorialTerms, parseTerms } from './model-terms.js';
@@ -41,6 +42,12 @@ export interface AnalysisRequest {
   tests?: ReadonlyArray<TestName | string>;
   /** level order per factor; default: order of first appearance */
   levels?: Record<string, string[]>;
+  /**
+   * run the dispersion analysis (per-cell ln s^2, CV, signal-to-noise, ranking) towards this goal;
+   * needs at least one factor. It works on the responses in their own units (S/N ratios and the
+   * target are not shift-invariant), so the offset is added back first.
+   */
+  dispersion?: DispersionGoal;
 }
 
 const CAUTIONS = [
@@ -116,6 +123,15 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
   const oneWay = names.length === 1 && model.terms.length === 1 ? oneWaySummary(model, table.totalSs) : undefined;
   const tested = runTests(request.tests ?? [], table, data.y, model.residuals, alpha);
   notes.push(...tested.notes);
+  let dispersion;
+  if (request.dispersion) {
+    if (names.length === 0) throw new StatsInputError('the dispersion analysis compares cells and needs at least one factor', 'dispersion');
+    const cells = cellGroups(table, data.y).map((g) => ({
+      key: g.levels,
+      values: g.values.map((v) => v + data.offset),
+    }));
+    dispersion = dispersionAnalysis(cells, names, request.dispersion);
+  }
   return {
     engineVersion: ENGINE_VERSION,
     response: request.response,
@@ -140,6 +156,7 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
     fitted: Array.from(model.fitted, (v) => v + data.offset),
     residuals: Array.from(model.residuals),
     tests: tested.tests,
+    dispersion,
     responseOffset: data.offsetText,
   };
 }

@@ -21,7 +21,10 @@ import { welchAnova } from './welch.js';
 export const TEST_NAMES: readonly TestName[] = ['tukey', 'welch', 'levene', 'brown-forsythe', 'bartlett', 'kruskal', 'shapiro'];
 
 /** Groups of responses per observed cell, labelled and in standard order. */
-export function cellGroups(table: CellTable, y: ArrayLike<number>): { label: string; values: number[] }[] {
+export function cellGroups(
+  table: CellTable,
+  y: ArrayLike<number>,
+): { label: string; levels: Record<string, string>; values: number[] }[] {
   const sizes = table.factors.map((f) => f.levels.length);
   const order = Array.from({ length: table.cellCount }, (_, c) => c);
   const standardIndex = (c: number): number => {
@@ -38,6 +41,7 @@ export function cellGroups(table: CellTable, y: ArrayLike<number>): { label: str
   order.forEach((c, g) => (groupOfCell[c] = g));
   const groups = order.map((c) => ({
     label: table.factors.map((f, fi) => f.levels[table.cellLevels[fi][c]]).join(':'),
+    levels: Object.fromEntries(table.factors.map((f, fi) => [f.name, f.levels[table.cellLevels[fi][c]]])),
     values: [] as number[],
   }));
   for (let i = 0; i < table.n; i++) groups[groupOfCell[table.cellOfRun[i]]].values.push(y[i]);
@@ -85,7 +89,7 @@ export function runTests(
   };
   const varianceHint = 'the group variances look unequal; consider Welch\'s ANOVA or Kruskal–Wallis and the dispersion analysis';
   for (const t of TEST_NAMES.filter((name) => tests.includes(name))) {
-    if (t === 'tukey') run(t, () => (out.tukey = tukeyHsd(groups, { confLevel: 1 - alpha })));
+    if (t === 'tukey') run(t, () => (out.tukey = tukeyHsd(groups.map(({ label, values: v }) => ({ label, values: v })), { confLevel: 1 - alpha })));
     if (t === 'welch') run(t, () => (out.welch = welchAnova(values)));
     if (t === 'levene') run(t, () => {
       out.levene = levene(values, 'mean');

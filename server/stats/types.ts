@@ -9,6 +9,8 @@
  *   still returned as the number, and `formatP` turns it into "p < 1e-16" for display.
  */
 
+import type { DispersionResult } from './dispersion.js';
+
 /** Which sums of squares an ANOVA table reports. */
 export type SsType = 1 | 2 | 3;
 
@@ -237,6 +239,8 @@ export interface AnalysisResult {
   /** residual per input row, in input order */
   residuals: number[];
   tests: AnalysisTests;
+  /** dispersion analysis over the cells (dispersion.ts), when a goal was given */
+  dispersion?: DispersionResult;
   /** the decimal offset subtracted from the responses before the analysis (see decimal-input.ts) */
   responseOffset: string;
 }
