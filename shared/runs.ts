@@ -84,10 +84,10 @@ export const runBatchBody = z.object({
 export type RunBatchBody = z.infer<typeof runBatchBody>;
 
 export const runRemoveBody = z.object({
-  reason: z.string().trim().min(3, 'Say why the run is removed (at least 3 characters)').max(1000),
+  reason: z.string({ message: 'Say why the run is removed' }).trim().min(3, 'Say why the run is removed (at least 3 characters)').max(1000),
   version: z.number().int().positive().optional(),
 });
-export const runRestoreBody = z.object({ reason: z.string().trim().min(3, 'Say why the run is restored').max(1000) });
+export const runRestoreBody = z.object({ reason: z.string({ message: 'Say why the run is restored' }).trim().min(3, 'Say why the run is restored').max(1000) });
 
 export const runsQuery = z.object({ includeRemoved: z.enum(['0', '1', 'true', 'false']).optional() });
 
@@ -145,4 +145,4 @@ export const exportQuery = z.object({
   includeRemoved: z.enum(['0', '1', 'true', 'false']).optional(),
 });
 
-export const attachmentDeleteBody = z.object({ reason: z.string().trim().min(3, 'Say why the attachment is deleted (at least 3 characters)').max(1000) });
+export const attachmentDeleteBody = z.object({ reason: z.string({ message: 'Say why the attachment is deleted' }).trim().min(3, 'Say why the attachment is deleted (at least 3 characters)').max(1000) });

@@ -45,7 +45,7 @@ const optionalNumber = (what: string, min: number, max: number) =>
     .nullable();
 
 export const studyFields = z.object({
-  title: z.string().trim().min(1, 'Enter a title').max(200, 'Title: use at most 200 characters'),
+  title: z.string({ message: 'Enter a title' }).trim().min(1, 'Enter a title').max(200, 'Title: use at most 200 characters'),
   purpose: text(4000, 'Purpose').default(''),
   specimenFamily: text(200, 'Specimen family').default(''),
   materialDescription: text(4000, 'Material description').default(''),
@@ -95,7 +95,7 @@ export const memberDeleteQuery = z.object({ userId: z.coerce.number({ message: '
 
 /** Short identifiers used as column keys (run sheet, imports, model terms). */
 export const symbol = z
-  .string()
+  .string({ message: 'Enter a symbol (e.g. w0 or H)' })
   .trim()
   .regex(/^[A-Za-z][A-Za-z0-9_]{0,23}$/, 'Symbol: start with a letter, then letters, digits or _ (at most 24)');
 
@@ -107,7 +107,7 @@ export const levelSchema = z.object({
 export const factorSchema = z
   .object({
     id: z.number().int().positive().optional(),
-    name: z.string().trim().min(1, 'Enter a factor name').max(120),
+    name: z.string({ message: 'Enter a factor name' }).trim().min(1, 'Enter a factor name').max(120),
     symbol,
     unit: text(40, 'Unit').default(''),
     kind: z.enum(['numeric', 'categorical'], { message: 'kind must be numeric or categorical' }),
@@ -146,7 +146,7 @@ export const RESPONSE_GOALS = ['nominal', 'smaller', 'larger', 'scatter'] as con
 export const responseSchema = z
   .object({
     id: z.number().int().positive().optional(),
-    name: z.string().trim().min(1, 'Enter a response name').max(120),
+    name: z.string({ message: 'Enter a response name' }).trim().min(1, 'Enter a response name').max(120),
     symbol,
     unit: text(40, 'Unit').default(''),
     decimals: z.number().int().min(0, 'Decimals: 0 to 10').max(10, 'Decimals: 0 to 10').default(3),
@@ -170,7 +170,7 @@ export type ResponsesBody = z.infer<typeof responsesBody>;
 
 export const outcomeSchema = z.object({
   id: z.number().int().positive().optional(),
-  label: z.string().trim().min(1, 'Enter an outcome label').max(120),
+  label: z.string({ message: 'Enter an outcome label' }).trim().min(1, 'Enter an outcome label').max(120),
   /** Valid outcomes count in the analysis; invalid ones keep the run in the sheet but exclude it. */
   valid: z.boolean(),
 });
