@@ -117,7 +117,7 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
   let model: LinearModelResult;
   if (names.length === 0) model = interceptOnly(table, data.y);
   else if (names.length === 2 && [`${names[0]},${names[1]},${top}`, `${names[0]},${names[1]}`].includes(terms.join(','))) {
-    model = twoWayAnova({ y: data.y, a: data.factors[0], b: data.factors[1], ssType, interaction: terms.length === 3 });
+    model = twoWayAnova({ y: data.y, a: data.factors[0], b: data.factors[1], ssType, interaction: terms.length === 3 }, table);
   } else model = fitLinearModel({ y: data.y, factors: data.factors, terms, ssType }, table);
   notes.push(...model.notes);
   const oneWay = names.length === 1 && model.terms.length === 1 ? oneWaySummary(model, table.totalSs) : undefined;

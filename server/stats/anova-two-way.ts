@@ -27,15 +27,16 @@ export interface TwoWayInput {
 
 /**
  * Two-way ANOVA of y on factors a and b.
+ * @param precomputed a CellTable of the same y and [a, b], if the caller already has one
  * @returns the typed linear-model result (rows A, B, [A:B], Residual; notes; fitted; residuals)
  * @throws StatsInputError for bad factors/values (see validateModelInput) or no residual df
  * @example twoWayAnova({ y: breaks, a: wool, b: tension }).anova[2].source // "wool:tension"
  */
-export function twoWayAnova(input: TwoWayInput): LinearModelResult {
+export function twoWayAnova(input: TwoWayInput, precomputed?: CellTable): LinearModelResult {
   const { y, a, b } = input;
   const ssType = input.ssType ?? 2;
   validateModelInput(y, [a, b]);
-  const table = buildCellTable(y, [a, b]);
+  const table = precomputed ?? buildCellTable(y, [a, b]);
   const notes: string[] = [];
   let interaction = input.interaction ?? true;
   const interactionName = `${a.name}:${b.name}`;
