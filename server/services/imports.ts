@@ -87,7 +87,10 @@ export function validateImport(db: Db, studyId: number, table: Payload, mapping:
   // Settings-matched rows fill the runs of that setting in run order, skipping runs already recorded.
   const freeBySetting = new Map<string, { ids: number[]; next: number }>();
   const settingKey = (s: Record<string, string>) => setup.factors.map((f) => (f.kind === 'numeric' ? String(Number(s[f.symbol])) : s[f.symbol])).join('\u0001');
+  const plannedSettings = new Set<string>();
   for (const r of runs) {
+    if (r.removedAt !== null) continue;
+    plannedSettings.add(settingKey(r.settings));
     if (Object.keys(r.values).length > 0) continue;
     const k = settingKey(r.settings);
     const slot = freeBySetting.get(k);
@@ -124,10 +127,11 @@ export function validateImport(db: Db, studyId: number, table: Payload, mapping:
         }
       }
     } else if (errors.length === before) {
-      const free = freeBySetting.get(settingKey(settings));
+      const key = settingKey(settings);
+      const free = freeBySetting.get(key);
       const described = setup.factors.map((f) => `${f.symbol}=${settings[f.symbol]}`).join(', ');
-      if (!free) err(row, null, 'unmatched-run', `No run of the plan has the settings ${described}`);
-      else if (free.next >= free.ids.length) err(row, null, 'duplicate-run', `More rows than unrecorded runs for the settings ${described}`);
+      if (!plannedSettings.has(key)) err(row, null, 'unmatched-run', `No run of the plan has the settings ${described}`);
+      else if (!free || free.next >= free.ids.length) err(row, null, 'duplicate-run', `More rows than unrecorded runs for the settings ${described}`);
       else runId = free.ids[free.next++];
     }
     if (runId !== undefined) {
