@@ -13,6 +13,8 @@ import { createApp } from '../../server/app.js';
 import { createContext } from '../../server/bootstrap.js';
 import { loadConfig } from '../../server/config.js';
 import { DEMO_PASSWORD } from '../../server/services/seed.js';
+import { progressRegistry } from '../../server/ops/progress.js';
+import { Client, signIn, startTestApp } from './harness.js';
 
 // Operations: health with migration level, request ids in the structured log, graceful shutdown.
 // Expectations: the migration journal drizzle/meta/_journal.json (the tags the code ships), and
@@ -147,6 +149,31 @@ describe('graceful shutdown', () => {
       expect(signIns.n).toBe(1);
     } finally {
       db.close();
+    }
+  });
+});
+
+describe('progress of long operations', () => {
+  it('GET /api/operations/:id shows the starter the progress of an operation and hides it from others', async () => {
+    const t = await startTestApp();
+    try {
+      const engineer = await signIn(t.app, 'engineer');
+      const other = await signIn(t.app, 'statistician');
+      const me = (await engineer.get('/api/me')).body.user as { id: number };
+      // What an import handler does through startOperation(): the client chose the id.
+      const op = progressRegistry(t.ctx).start(me.id, 'import', 'import-7f3a-0001');
+      op.update('validating', 20_000, 50_000);
+      const seen = await engineer.get('/api/operations/import-7f3a-0001');
+      expect(seen.status).toBe(200);
+      expect(seen.headers['cache-control']).toBe('no-store');
+      expect(seen.body.operation).toMatchObject({ kind: 'import', state: 'running', phase: 'validating', done: 20_000, total: 50_000, percent: 40 });
+      expect((await other.get('/api/operations/import-7f3a-0001')).status).toBe(404);
+      expect((await new Client(t.app).get('/api/operations/import-7f3a-0001')).status).toBe(401);
+      expect((await engineer.get('/api/operations/x')).status).toBe(400);
+      op.finish();
+      expect((await engineer.get('/api/operations/import-7f3a-0001')).body.operation).toMatchObject({ state: 'done', percent: 100 });
+    } finally {
+      await t.close();
     }
   });
 });
