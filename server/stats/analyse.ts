@@ -22,6 +22,7 @@ import { StatsInputError } from './errors.js';
 import { fitLinearModel, validateModelInput } from './linear-model.js';
 import { fullFactorialTerms, parseTerms } from './model-terms.js';
 import { plotData } from './plot-data.js';
+import { tukeyByTerm } from './tukey-by-term.js';
 import type { AnalysisResult, AnovaEffectRow, LinearModelResult, OneWaySummary, SsType, TestName } from './types.js';
 
 /** Version of the numerical engine, stored with every saved analysis so results can be traced. */
@@ -123,6 +124,18 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
   const oneWay = names.length === 1 && model.terms.length === 1 ? oneWaySummary(model, table.totalSs) : undefined;
   const tested = runTests(request.tests ?? [], table, data.y, model.residuals, alpha);
   notes.push(...tested.notes);
+  // Post-hoc per fitted term with the model's error term (R's TukeyHSD(aov) convention); a term
+  // whose groups cannot be compared (e.g. one run in a group and no model df) is noted, not fatal.
+  let posthoc;
+  if ((request.tests ?? []).includes('tukey') && model.terms.length > 0 && model.residualDf > 0) {
+    try {
+      posthoc = tukeyByTerm(data.y, data.factors, model.terms, model.mse, model.residualDf, 1 - alpha);
+    } catch (err) {
+      // Expected failure: tukeyHsd's input checks on a degenerate term (StatsInputError).
+      if (!(err instanceof StatsInputError)) throw err;
+      notes.push(`Tukey per model term not run: ${err.message}`);
+    }
+  }
   let dispersion;
   if (request.dispersion) {
     if (names.length === 0) throw new StatsInputError('the dispersion analysis compares cells and needs at least one factor', 'dispersion');
@@ -156,6 +169,7 @@ export function analyse(request: AnalysisRequest): AnalysisResult {
     fitted: Array.from(model.fitted, (v) => v + data.offset),
     residuals: Array.from(model.residuals),
     tests: tested.tests,
+    posthoc,
     dispersion,
     responseOffset: data.offsetText,
   };

@@ -239,6 +239,12 @@ export interface AnalysisResult {
   /** residual per input row, in input order */
   residuals: number[];
   tests: AnalysisTests;
+  /**
+   * Tukey HSD per fitted term with the model's residual MS and df (R's TukeyHSD on the model),
+   * present when 'tukey' was asked for. `tests.tukey` instead compares all cells with their own
+   * pooled variance (the command line's one-factor contract).
+   */
+  posthoc?: { term: string; comparisons: TukeyComparison[] }[];
   /** dispersion analysis over the cells (dispersion.ts), when a goal was given */
   dispersion?: DispersionResult;
   /** the decimal offset subtracted from the responses before the analysis (see decimal-input.ts) */
