@@ -1,0 +1,116 @@
+import { describe, expect, it } from 'vitest';
+import { StatsInputError } from '../errors.js';
+import { definingWords, fractionalFactorial, LETTERS, parseGenerator, wordLengths, type TwoLevelFactor } from './fractional-factorial.js';
+import { STANDARD_GENERATORS } from './generator-table.js';
+
+const numeric = (k: number): TwoLevelFactor[] =>
+  Array.from({ length: k }, (_, i) => ({ name: `x${i + 1}`, levels: [10 * i, 10 * i + 4] as [number, number] }));
+
+/** Word-length pattern (A3, A4, ...) of a generator set, from the design algebra. */
+function pattern(generators: string[], k: number): number[] {
+  const words = definingWords(generators.map((g) => parseGenerator(g, k).word));
+  return wordLengths(words, k).wordLengthPattern;
+}
+
+/** Exhaustive minimum-aberration search: the lexicographically smallest pattern (A1, A2, A3, ...). */
+function minimumAberrationPattern(k: number, p: number): number[] {
+  const base = k - p;
+  const candidates: number[] = [];
+  for (let m = 1; m < 1 << base; m++) if ((m & (m - 1)) !== 0) candidates.push(m);
+  let best: number[] | null = null;
+  const choose = (start: number, chosen: number[]): void => {
+    if (chosen.length === p) {
+      const words = chosen.map((m, i) => ({ mask: m | (1 << (base + i)), sign: 1 as const }));
+      const wlp = wordLengths(definingWords(words), k).wordLengthPattern;
+      if (best === null || compare(wlp, best) < 0) best = wlp;
+      return;
+    }
+    for (let i = start; i < candidates.length; i++) choose(i + 1, [...chosen, candidates[i]]);
+  };
+  choose(0, []);
+  return best as unknown as number[];
+}
+function compare(a: number[], b: number[]): number {
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i] - b[i];
+  return 0;
+}
+const binomial = (n: number, r: number): number => (r === 0 ? 1 : (binomial(n - 1, r - 1) * n) / r);
+
+describe('standard generator table (recalled from Box, Hunter & Hunter / Montgomery: from memory)', () => {
+  it.each(STANDARD_GENERATORS)('2^($k-$p): computed resolution equals the published $resolution', (e) => {
+    const d = fractionalFactorial({ factors: numeric(e.k), fraction: e.p, seed: 1 });
+    expect(d.resolution).toBe(e.resolution);
+    expect(d.runs).toHaveLength(2 ** (e.k - e.p));
+  });
+
+  it('is minimum aberration wherever an exhaustive search is small (<= 20 000 generator sets)', () => {
+    // Fries & Hunter (1980) definition: minimise A3, then A4, ...; the search is the definition itself
+    let searched = 0;
+    for (const e of STANDARD_GENERATORS) {
+      const candidates = 2 ** (e.k - e.p) - 1 - (e.k - e.p);
+      if (binomial(candidates, e.p) > 20_000) continue;
+      searched++;
+      expect(pattern(e.generators, e.k), `2^(${e.k}-${e.p})`).toEqual(minimumAberrationPattern(e.k, e.p));
+    }
+    expect(searched).toBeGreaterThanOrEqual(15);
+  });
+});
+
+describe('fractionalFactorial', () => {
+  it('builds the 2^(5-1) half fraction E = ABCD with its defining relation and aliases', () => {
+    // BHH 2005 ch. 6: I = ABCDE, resolution V; main effects alias four-factor interactions and
+    // two-factor interactions alias three-factor ones, so no alias of order <= 2 appears
+    const d = fractionalFactorial({ factors: numeric(5), generators: ['E=ABCD'], seed: 3 });
+    expect(d.definingRelation).toBe('I = ABCDE');
+    expect(d.resolution).toBe(5);
+    expect(d.wordLengthPattern).toEqual([0, 0, 0, 0, 1]);
+    expect(d.aliases.every((a) => a.aliases.length === 0)).toBe(true);
+    // every run satisfies E = A·B·C·D in coded units
+    for (const r of d.runs) {
+      const x = d.letters.map(({ factor }, i) => ((r.levels[factor] as number) === 10 * i + 4 ? 1 : -1));
+      expect(x[4]).toBe(x[0] * x[1] * x[2] * x[3]);
+    }
+  });
+
+  it('gives the resolution III aliases of the 2^(7-4) design', () => {
+    // D = AB, E = AC, F = BC, G = ABC: A is aliased with BD, CE and FG (BHH 2005, ch. 6 saturated design)
+    const d = fractionalFactorial({ factors: numeric(7), generators: ['D=AB', 'E=AC', 'F=BC', 'G=ABC'], seed: 3 });
+    expect(d.definingRelation.split(' = ')).toHaveLength(16);
+    expect(d.resolution).toBe(3);
+    expect([...(d.aliases.find((a) => a.effect === 'A')?.aliases ?? [])].sort()).toEqual(['BD', 'CE', 'FG']);
+  });
+
+  it('carries the sign of a negative generator into the runs and the defining relation', () => {
+    const d = fractionalFactorial({ factors: numeric(4), generators: ['D=-ABC'], seed: 1 });
+    expect(d.definingRelation).toBe('I = -ABCD');
+    for (const r of d.runs) {
+      const x = d.letters.map(({ factor }, i) => ((r.levels[factor] as number) === 10 * i + 4 ? 1 : -1));
+      expect(x[3]).toBe(-x[0] * x[1] * x[2]);
+    }
+  });
+
+  it('adds centre points at the midpoints, per block, and randomises reproducibly', () => {
+    const d = fractionalFactorial({ factors: numeric(4), fraction: 1, replicates: 2, blocks: 'perReplicate', centrePoints: 2, seed: 11 });
+    expect(d.runs).toHaveLength(2 * 8 + 2 * 2);
+    const centres = d.runs.filter((r) => r.centre);
+    expect(centres).toHaveLength(4);
+    expect(centres.every((r) => r.levels.x1 === 2 && r.levels.x4 === 32)).toBe(true);
+    expect(d.runs.slice(0, 10).every((r) => r.block === 'Block 1')).toBe(true);
+    const again = fractionalFactorial({ factors: numeric(4), fraction: 1, replicates: 2, blocks: 'perReplicate', centrePoints: 2, seed: 11 });
+    expect(again.runs.map((r) => r.standardOrder)).toEqual(d.runs.map((r) => r.standardOrder));
+  });
+
+  it('rejects unknown letters, repeated generators, k > 11, categorical centre points', () => {
+    expect(() => fractionalFactorial({ factors: numeric(5), generators: ['E=ABCZ'], seed: 1 })).toThrow(/letter "Z"/);
+    expect(() => fractionalFactorial({ factors: numeric(6), generators: ['E=ABC', 'E=ABD'], seed: 1 })).toThrow(/defines E a second time/);
+    expect(() => fractionalFactorial({ factors: numeric(6), generators: ['E=ABC', 'F=ABC'], seed: 1 })).toThrow(/repeat the same word/);
+    expect(() => fractionalFactorial({ factors: numeric(6), generators: ['E=AB', 'F=ABE'], seed: 1 })).toThrow(/generated letter E/);
+    expect(() => fractionalFactorial({ factors: numeric(12), fraction: 4, seed: 1 })).toThrow(/at most 11 factors, got 12/);
+    expect(() => fractionalFactorial({ factors: numeric(5), generators: ['E=A'], seed: 1 })).toThrow(/main effect/);
+    expect(() => fractionalFactorial({ factors: numeric(5), generators: ['E+ABCD'], seed: 1 })).toThrow(/"E\+ABCD"/);
+    const cat: TwoLevelFactor[] = [...numeric(3), { name: 'coating', levels: ['none', 'oil'] }];
+    expect(() => fractionalFactorial({ factors: cat, generators: ['D=ABC'], centrePoints: 1, seed: 1 })).toThrow(/"coating" is categorical/);
+    expect(() => fractionalFactorial({ factors: numeric(5), fraction: 4, seed: 1 })).toThrow(StatsInputError);
+    expect(LETTERS).not.toContain('I');
+  });
+});
