@@ -1,8 +1,18 @@
 import type { PlanBody } from '../../shared/runs.js';
 import { HttpError } from '../http-error.js';
-import type { Setup } from './study-setup.js';
+import { StatsInputError } from '../stats/errors.js';
+import { fractionalFactorial, type TwoLevelFactor } from '../stats/designs/fractional-factorial.js';
+import { fullFactorial, type DesignFactor, type DesignRun, type Level } from '../stats/designs/full-factorial.js';
+import { factorialPower, replicatesForPower, type PowerPlan, type TermPower } from '../stats/power.js';
+import type { FactorRow, Setup } from './study-setup.js';
 
-/** A generated run before it is stored (code and ids are given on commit). */
+/**
+ * Bridges a study's set-up to the design engine (server/stats/designs) and the power calculation
+ * (server/stats/power.ts). The engine works on factor names and numeric or text levels; the study
+ * keeps level values as the text the engineer typed ("0.50"), so levels go in as numbers for numeric
+ * factors (centre points need arithmetic) and come back mapped to that exact text.
+ */
+
 export interface GeneratedRun {
   standardOrder: number;
   runOrder: number;
@@ -15,7 +25,99 @@ export interface GeneratedPlan {
   summary: Record<string, unknown>;
 }
 
-/** Bridges the study set-up to the design engine in server/stats/designs (pending: not merged yet). */
-export function generatePlan(_setup: Setup, _body: PlanBody): GeneratedPlan {
-  throw new HttpError(503, 'Plan generation is not available yet: the design engine (server/stats/designs) has not been merged');
+const levelIn = (f: FactorRow, value: string): Level => (f.kind === 'numeric' ? Number(value) : value);
+
+function levelOut(f: FactorRow, v: Level): string {
+  if (f.kind !== 'numeric') return String(v);
+  const typed = f.levels.find((l) => Number(l.value) === Number(v));
+  // A centre point lies between the typed levels: its text is the computed midpoint.
+  return typed ? typed.value : String(Number(Number(v).toPrecision(12)));
+}
+
+function blocksOption(b: PlanBody['blocks']): 'perReplicate' | string[] | undefined {
+  if (b === 'none') return undefined;
+  if (b === 'perReplicate') return 'perReplicate';
+  return Array.from({ length: b }, (_, i) => `Block ${i + 1}`);
+}
+
+function toRuns(factors: FactorRow[], runs: DesignRun[]): GeneratedRun[] {
+  return runs.map((r) => ({
+    standardOrder: r.standardOrder,
+    runOrder: r.runOrder,
+    block: r.block ?? '1',
+    centrePoint: r.centre === true,
+    settings: Object.fromEntries(factors.map((f) => [f.symbol, levelOut(f, r.levels[f.symbol]!)])),
+  }));
+}
+
+/** Power per term for a full factorial; notes instead of a failure when the plan leaves no error df. */
+function powerSummary(factors: FactorRow[], body: PlanBody, notes: string[]): { power?: TermPower[]; replicatesForTarget?: number } {
+  if (!body.power) return {};
+  if (body.design === 'fractional') {
+    notes.push('Power is computed for full factorial plans only; for a fractional plan judge it from the full factorial of the same run count.');
+    return {};
+  }
+  const plan: PowerPlan = {
+    factors: factors.map((f) => ({ name: f.symbol, levels: f.levels.length })),
+    replicates: body.replicates,
+    blocks: body.blocks === 'none' ? undefined : body.blocks,
+    alpha: body.power.alpha,
+  };
+  const out: { power?: TermPower[]; replicatesForTarget?: number } = {};
+  try {
+    out.power = factorialPower(plan, body.power.effect);
+  } catch (err) {
+    // Expected: one replicate of the full model leaves no error degrees of freedom; say so instead of failing the preview.
+    if (!(err instanceof StatsInputError)) throw err;
+    notes.push(`Power not available: ${err.message}`);
+  }
+  if (body.power.targetPower !== undefined) {
+    try {
+      out.replicatesForTarget = replicatesForPower(plan, body.power.effect, body.power.targetPower, undefined, 200).replicates;
+    } catch (err) {
+      // Expected when the target is out of reach within 200 replicates (or the effect defines no term's power).
+      if (!(err instanceof StatsInputError)) throw err;
+      notes.push(`Replicates for power ${body.power.targetPower}: ${err.message}`);
+    }
+  }
+  return out;
+}
+
+export function generatePlan(setup: Setup, body: PlanBody): GeneratedPlan {
+  const factors = setup.factors;
+  if (factors.length === 0) throw new HttpError(400, 'The study has no factors yet: set up factors (PUT /api/studies/:id/factors) before planning');
+  const notes: string[] = [];
+  const common = { replicates: body.replicates, blocks: blocksOption(body.blocks), seed: body.seed, randomise: body.randomise };
+  let runs: DesignRun[];
+  let fractional: Record<string, unknown> = {};
+  if (body.design === 'full') {
+    if (body.centrePoints > 0) {
+      throw new HttpError(400, `centrePoints ${body.centrePoints}: centre points are added to two-level fractional plans; for a full factorial give the middle value as a level of the factor`, { details: [{ path: 'centrePoints', message: 'Use 0 for a full factorial' }] });
+    }
+    const design: DesignFactor[] = factors.map((f) => ({ name: f.symbol, levels: f.levels.map((l) => levelIn(f, l.value)) }));
+    runs = fullFactorial({ factors: design, ...common });
+  } else {
+    const twoLevel = factors.find((f) => f.levels.length !== 2);
+    if (twoLevel) throw new HttpError(400, `Factor "${twoLevel.symbol}" has ${twoLevel.levels.length} levels; a 2^(k-p) plan needs exactly 2 levels per factor`);
+    const design: TwoLevelFactor[] = factors.map((f) => ({ name: f.symbol, levels: [levelIn(f, f.levels[0]!.value), levelIn(f, f.levels[1]!.value)] }));
+    const d = fractionalFactorial({ factors: design, generators: body.fraction?.generators, fraction: body.fraction?.p, centrePoints: body.centrePoints, ...common });
+    runs = d.runs;
+    fractional = { k: d.k, p: d.p, letters: d.letters, generators: d.generators, definingRelation: d.definingRelation, resolution: d.resolution, wordLengthPattern: d.wordLengthPattern, aliases: d.aliases };
+    if (d.resolution <= 3) notes.push(`Resolution ${d.resolution}: main effects are aliased with two-factor interactions; read the alias list before trusting a main effect.`);
+  }
+  if (body.replicates === 1) notes.push('One replicate: the error term comes from pooled high-order interactions only; replicate if you can.');
+  const summary = {
+    design: body.design,
+    runCount: runs.length,
+    factors: factors.map((f) => ({ symbol: f.symbol, levels: f.levels.map((l) => l.value) })),
+    replicates: body.replicates,
+    blocks: body.blocks,
+    centrePoints: body.centrePoints,
+    seed: body.seed,
+    randomise: body.randomise,
+    ...fractional,
+    ...powerSummary(factors, body, notes),
+    notes,
+  };
+  return { runs: toRuns(factors, runs), summary };
 }

@@ -22,11 +22,6 @@ afterAll(() => t.close());
 const uploadTo = (client: Client, studyId: number, runId: number) =>
   client.agent.post(`/api/studies/${studyId}/runs/${runId}/attachments`).set('X-XSRF-TOKEN', client.xsrf);
 
-function binary(res: NodeJS.ReadableStream, cb: (err: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(c));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-}
 
 describe('attachments', () => {
   it('stores the file with its SHA-256 and gives back the same bytes', async () => {
@@ -38,7 +33,11 @@ describe('attachments', () => {
     const list = await supervisor.get(`/api/studies/${id}/runs/${runIds[0]}/attachments`);
     expect(list.body.attachments).toHaveLength(1);
     expect((await engineer.get(`/api/studies/${id}/runs`)).body.runs[0].attachmentCount).toBe(1);
-    const dl = await supervisor.agent.get(`/api/studies/${id}/attachments/${res.body.attachment.id}/download`).buffer(true).parse(binary);
+    const dl = await supervisor.agent.get(`/api/studies/${id}/attachments/${res.body.attachment.id}/download`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
     expect(dl.status).toBe(200);
     expect(dl.headers['content-disposition']).toMatch(/^attachment; filename="?strain-field.csv"?$/);
     expect(dl.headers['x-checksum-sha256']).toBe(res.body.attachment.sha256);
