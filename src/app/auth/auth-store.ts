@@ -1,6 +1,6 @@
 import { HttpClient, HttpContext, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
-import { Observable, firstValueFrom, map, tap } from 'rxjs';
+import { Observable, catchError, firstValueFrom, map, of, switchMap, tap } from 'rxjs';
 import type { LoginBody, PublicUser } from '../../../shared/auth';
 import { ROLE_LABELS } from '../../../shared/roles';
 import { ApiError, ERRORS_SHOWN_INLINE } from '../core/api-error';
@@ -50,8 +50,21 @@ export class AuthStore {
       );
   }
 
+  /**
+   * Signing out destroys the server session and with it the XSRF token the cookie still holds; the
+   * follow-up GET /api/me (answering 401) starts a fresh session whose token the next sign-in needs.
+   */
   signOut(): Observable<void> {
-    return this.http.post<void>('/api/auth/logout', null).pipe(tap(() => this.current.set(null)));
+    return this.http.post<void>('/api/auth/logout', null).pipe(
+      tap(() => this.current.set(null)),
+      switchMap(() =>
+        this.http.get<UserResponse>('/api/me').pipe(
+          map(() => undefined),
+          // Expected: 401, the session is gone. That is the answer we wanted, not a failure.
+          catchError(() => of(undefined)),
+        ),
+      ),
+    );
   }
 
   /** For flows that sign the user in as a side effect (accepting an invitation). */
