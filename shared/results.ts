@@ -12,7 +12,10 @@ export const idempotencyKey = z
   .string()
   .regex(IDEMPOTENCY_KEY_RE, 'The idempotency key must be 8–200 characters of letters, digits and _ . : - (a UUID works)');
 
-const valueText = z.union([z.string().max(64, 'A value has at most 64 characters'), z.number(), z.null()]);
+/** Decimal text, a finite JSON number, or null to clear. 1e309 parses to Infinity and is named as such. */
+const valueText = z.union([z.string().max(64, 'A value has at most 64 characters'), z.number(), z.null()], {
+  error: (issue) => `${typeof issue.input === 'string' ? JSON.stringify(issue.input) : String(issue.input)} is not a value: send decimal text such as "0.850", a finite number, or null`,
+});
 
 export const resultItem = z
   .object({
@@ -36,10 +39,15 @@ export type ResultItem = z.infer<typeof resultItem>;
 export const MAX_PUSH_ITEMS = 10_000;
 export const resultItems = z.array(resultItem).min(1, 'Send at least one result').max(MAX_PUSH_ITEMS, `At most ${MAX_PUSH_ITEMS} results per push`);
 
+export const resultPushObject = z.object({ idempotencyKey, results: resultItems, reason: z.string().trim().max(1000).optional() }).strict();
+
 /** The body is either the bare array (key in the Idempotency-Key header) or an object carrying the key. */
-export const resultPushBody = z
-  .union([resultItems, z.object({ idempotencyKey, results: resultItems, reason: z.string().trim().max(1000).optional() }).strict()])
-  .meta({ id: 'ResultPush' });
+export const resultPushBody = z.union([resultItems, resultPushObject]).meta({ id: 'ResultPush' });
+
+/** Parses either form with the errors of that form (a union would only say "Invalid input"). */
+export function parseResultPush(body: unknown): ResultPushBody {
+  return Array.isArray(body) ? resultItems.parse(body) : resultPushObject.parse(body);
+}
 export type ResultPushBody = z.infer<typeof resultPushBody>;
 
 export const resultPushResponse = z

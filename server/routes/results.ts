@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { idempotencyKey, resultPushBody } from '../../shared/results.js';
+import { idempotencyKey, parseResultPush } from '../../shared/results.js';
 import type { AppContext } from '../context.js';
 import { HttpError } from '../http-error.js';
 import { EDITOR_ROLES, studyMember } from '../auth/policy.js';
@@ -11,7 +11,7 @@ export function resultsRouter(ctx: AppContext): Router {
   const r = Router();
 
   r.post('/studies/:id/results', studyMember(() => ctx.db, { studyRoles: EDITOR_ROLES, scope: 'write' }), (req, res) => {
-    const body = resultPushBody.parse(req.body);
+    const body = parseResultPush(req.body);
     const header = req.get('idempotency-key');
     const inBody = Array.isArray(body) ? undefined : body.idempotencyKey;
     if (header !== undefined && inBody !== undefined && header !== inBody) {
