@@ -54,6 +54,25 @@ describe('standard generator table (recalled from Box, Hunter & Hunter / Montgom
     }
     expect(searched).toBeGreaterThanOrEqual(15);
   });
+
+  it('matches the minimum word-length patterns of the larger searches (run offline)', () => {
+    // The same exhaustive search as above (minimumAberrationPattern) takes minutes for these sizes,
+    // so it was run once outside the test suite; its minima (A1..Ak) are recorded here so that an
+    // edit of the table cannot silently lose minimum aberration.
+    const offline: Record<string, number[]> = {
+      '9-3': [0, 0, 0, 1, 4, 2, 0, 0, 0],
+      '10-3': [0, 0, 0, 0, 3, 3, 1, 0, 0, 0],
+      '10-4': [0, 0, 0, 2, 8, 4, 0, 1, 0, 0],
+      '10-5': [0, 0, 0, 10, 16, 0, 0, 5, 0, 0],
+      '11-5': [0, 0, 0, 4, 14, 8, 0, 3, 2, 0, 0],
+      '11-6': [0, 0, 0, 25, 0, 27, 0, 10, 0, 1, 0],
+    };
+    for (const [kp, want] of Object.entries(offline)) {
+      const [k, p] = kp.split('-').map(Number);
+      const e = STANDARD_GENERATORS.find((x) => x.k === k && x.p === p);
+      expect(pattern(e?.generators ?? [], k), kp).toEqual(want);
+    }
+  });
 });
 
 describe('fractionalFactorial', () => {
