@@ -107,6 +107,16 @@ export function tukeyHsd(groups: TukeyGroup[], opts: TukeyOptions = {}): TukeyCo
     opts.mse !== undefined && opts.dfError !== undefined ? { mse: opts.mse, dfError: opts.dfError } : pooledError(groups, means);
   const qCrit = studentizedRangeQuantile(opts.confLevel ?? 0.95, k, dfError);
   const rows: TukeyComparison[] = [];
+  // balanced designs repeat the same |diff|/se often; each tail is a double integral, so reuse it
+  const tailCache = new Map<number, number>();
+  const tail = (q: number): number => {
+    let p = tailCache.get(q);
+    if (p === undefined) {
+      p = studentizedRangeUpperTail(q, k, dfError);
+      tailCache.set(q, p);
+    }
+    return p;
+  };
   for (let i = 0; i < k; i++) {
     for (let j = i + 1; j < k; j++) {
       const diff = means[j] - means[i];
@@ -118,7 +128,7 @@ export function tukeyHsd(groups: TukeyGroup[], opts: TukeyOptions = {}): TukeyCo
         diff,
         lower: diff - width,
         upper: diff + width,
-        p: studentizedRangeUpperTail(Math.abs(diff) / se, k, dfError),
+        p: tail(Math.abs(diff) / se),
       });
     }
   }
