@@ -88,7 +88,7 @@ function coefficients(n: number): number[] {
  * @param x sample (e.g. model residuals), 3 to 5000 finite values, not all equal
  * @returns {w, p}
  * @throws StatsInputError for n outside 3..5000, a non-finite value, or zero range
- * @example shapiroWilk([2.1, 3.4, 1.9, 5.6, 4.4, 3.0, 2.7]) // W ≈ 0.94, p ≈ 0.6
+ * @example shapiroWilk([2.1, 3.4, 1.9, 5.6, 4.4, 3.0, 2.7]) // W = 0.92834, p = 0.5369 (SciPy shapiro: 0.92834, 0.5369)
  */
 export function shapiroWilk(x: number[]): ShapiroWilkResult {
   if (!Array.isArray(x) || x.length < 3 || x.length > 5000) {

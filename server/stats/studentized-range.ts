@@ -107,7 +107,7 @@ function studentizedTail(q: number, k: number, df: number, upper: boolean): numb
  * @param k number of means (integer >= 2)
  * @param df error degrees of freedom (> 0; Infinity for known σ)
  * @throws StatsInputError naming the bad argument
- * @example studentizedRangeCdf(3.5, 3, 20) // ≈ 0.9482
+ * @example studentizedRangeCdf(3.5, 3, 20) // 0.944108150918250 (SciPy studentized_range.cdf)
  */
 export function studentizedRangeCdf(q: number, k: number, df: number): number {
   return studentizedTail(q, k, df, false);
