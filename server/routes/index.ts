@@ -8,6 +8,7 @@ import { runsRouter } from './runs.js';
 import { studiesRouter } from './studies.js';
 import { tokensRouter } from './tokens.js';
 import { resultsRouter } from './results.js';
+import { calcRouter } from './calc.js';
 
 /**
  * Feature routers (studies, runs, analyses, tokens, ...) register here, each exporting
@@ -23,5 +24,6 @@ export function extraRouters(ctx: AppContext): Router[] {
     attachmentsRouter(ctx),
     auditRouter(ctx),
     resultsRouter(ctx),
+    calcRouter(ctx),
   ];
 }
