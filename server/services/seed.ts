@@ -1,5 +1,6 @@
 import type { Role } from '../../shared/roles.js';
 import type { AppContext } from '../context.js';
+import { seedDemoStudy } from './demo-study.js';
 import { createUser, findUserByEmail } from './users.js';
 
 export const DEMO_PASSWORD = 'specimetry-demo';
@@ -12,7 +13,7 @@ export const DEMO_ACCOUNTS: { email: string; name: string; role: Role }[] = [
 ];
 
 /** Further demo content (studies, runs) registers here so the seed stays one call. */
-export const demoSeeders: ((ctx: AppContext) => Promise<void> | void)[] = [];
+export const demoSeeders: ((ctx: AppContext) => Promise<void> | void)[] = [seedDemoStudy];
 
 /** Idempotent: creates the four demo accounts (and the demo content) only where missing. */
 export async function seedDemo(ctx: AppContext): Promise<void> {
