@@ -91,7 +91,7 @@ describe('graceful shutdown', () => {
   it('lets an in-flight request finish after SIGTERM, refuses new ones, exits 0 and leaves the database intact', async () => {
     const dataDir = tempDir();
     const port = await freePort();
-    const child = spawn(path.resolve('node_modules/.bin/tsx'), ['server/index.ts'], {
+    const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
       env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', LOG_LEVEL: 'warn', DEMO: '1' },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
