@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { StatsInputError } from '../errors.js';
 import { definingWords, fractionalFactorial, LETTERS, parseGenerator, wordLengths, type TwoLevelFactor } from './fractional-factorial.js';
 import { STANDARD_GENERATORS } from './generator-table.js';
+import { minimumAberration, searchSize } from './minimum-aberration.js';
 
 const numeric = (k: number): TwoLevelFactor[] =>
   Array.from({ length: k }, (_, i) => ({ name: `x${i + 1}`, levels: [10 * i, 10 * i + 4] as [number, number] }));
@@ -11,30 +12,6 @@ function pattern(generators: string[], k: number): number[] {
   const words = definingWords(generators.map((g) => parseGenerator(g, k).word));
   return wordLengths(words, k).wordLengthPattern;
 }
-
-/** Exhaustive minimum-aberration search: the lexicographically smallest pattern (A1, A2, A3, ...). */
-function minimumAberrationPattern(k: number, p: number): number[] {
-  const base = k - p;
-  const candidates: number[] = [];
-  for (let m = 1; m < 1 << base; m++) if ((m & (m - 1)) !== 0) candidates.push(m);
-  let best: number[] | null = null;
-  const choose = (start: number, chosen: number[]): void => {
-    if (chosen.length === p) {
-      const words = chosen.map((m, i) => ({ mask: m | (1 << (base + i)), sign: 1 as const }));
-      const wlp = wordLengths(definingWords(words), k).wordLengthPattern;
-      if (best === null || compare(wlp, best) < 0) best = wlp;
-      return;
-    }
-    for (let i = start; i < candidates.length; i++) choose(i + 1, [...chosen, candidates[i]]);
-  };
-  choose(0, []);
-  return best as unknown as number[];
-}
-function compare(a: number[], b: number[]): number {
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i] - b[i];
-  return 0;
-}
-const binomial = (n: number, r: number): number => (r === 0 ? 1 : (binomial(n - 1, r - 1) * n) / r);
 
 describe('standard generator table (recalled from Box, Hunter & Hunter / Montgomery: from memory)', () => {
   it.each(STANDARD_GENERATORS)('2^($k-$p): computed resolution equals the published $resolution', (e) => {
@@ -47,18 +24,27 @@ describe('standard generator table (recalled from Box, Hunter & Hunter / Montgom
     // Fries & Hunter (1980) definition: minimise A3, then A4, ...; the search is the definition itself
     let searched = 0;
     for (const e of STANDARD_GENERATORS) {
-      const candidates = 2 ** (e.k - e.p) - 1 - (e.k - e.p);
-      if (binomial(candidates, e.p) > 20_000) continue;
+      if (searchSize(e.k, e.p) > 20_000) continue;
       searched++;
-      expect(pattern(e.generators, e.k), `2^(${e.k}-${e.p})`).toEqual(minimumAberrationPattern(e.k, e.p));
+      expect(pattern(e.generators, e.k), `2^(${e.k}-${e.p})`).toEqual(minimumAberration(e.k, e.p).pattern);
     }
-    expect(searched).toBeGreaterThanOrEqual(15);
+    expect(searched).toBe(20);
+  });
+
+  it('search finds known minima: 2^(5-1) one word ABCDE; 2^(7-4) seven 3-, seven 4-, one 7-letter word', () => {
+    // 2^(7-4) saturated design: its 15 defining words are 7 of length 3, 7 of length 4 and ABCDEFG
+    // (BHH 2005, ch. 6); 2^(5-1): I = ABCDE
+    expect(minimumAberration(5, 1).pattern).toEqual([0, 0, 0, 0, 1]);
+    const sat = minimumAberration(7, 4);
+    expect(sat.pattern).toEqual([0, 0, 7, 7, 0, 0, 1]);
+    expect(pattern(sat.generators, 7)).toEqual(sat.pattern);
+    expect(() => minimumAberration(12, 4)).toThrow(/got 12/);
   });
 
   it('matches the minimum word-length patterns of the larger searches (run offline)', () => {
-    // The same exhaustive search as above (minimumAberrationPattern) takes minutes for these sizes,
-    // so it was run once outside the test suite; its minima (A1..Ak) are recorded here so that an
-    // edit of the table cannot silently lose minimum aberration.
+    // minimumAberration(k, p) takes seconds to minutes for these sizes (searchSize 29 260 to 8.2
+    // million), so it was run once outside the test suite (command in minimum-aberration.ts); its
+    // minima (A1..Ak) are recorded here so that an edit of the table cannot lose minimum aberration.
     const offline: Record<string, number[]> = {
       '9-3': [0, 0, 0, 1, 4, 2, 0, 0, 0],
       '10-3': [0, 0, 0, 0, 3, 3, 1, 0, 0, 0],
