@@ -2,13 +2,14 @@ import { OpenAPIRegistry, OpenApiGeneratorV31, type RouteConfig } from '@asteaso
 import { z, type ZodType } from 'zod';
 import type { Policy } from '../auth/policy.js';
 import type { RouteInfo } from '../auth/route-list.js';
+import { ANALYSIS_OPERATIONS } from './catalogue-analysis.js';
 import { AUTOMATION_OPERATIONS } from './catalogue-automation.js';
 import { FOUNDATION_OPERATIONS } from './catalogue-foundation.js';
 import { STUDY_OPERATIONS } from './catalogue-studies.js';
 import { routeKey, type OperationDoc } from './catalogue.js';
 
 /** Every documented operation; order is the order of the reference page. */
-export const CATALOGUE: readonly OperationDoc[] = [...FOUNDATION_OPERATIONS, ...STUDY_OPERATIONS, ...AUTOMATION_OPERATIONS];
+export const CATALOGUE: readonly OperationDoc[] = [...FOUNDATION_OPERATIONS, ...STUDY_OPERATIONS, ...ANALYSIS_OPERATIONS, ...AUTOMATION_OPERATIONS];
 
 const apiError = z
   .object({

@@ -1,0 +1,118 @@
+import { execFileSync } from 'node:child_process';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { gzipSync } from 'node:zlib';
+import { csv } from '../api/hardening-files.js';
+import { prepareData, signInHttp, startServer } from './bench-server.js';
+import { load, type LoadFigure } from './load-bench.js';
+
+// npm run bench — load, import and bundle figures for the README's performance section, then the
+// statistics benchmark (tests/bench/stats-bench.ts, owned by the statistics engineers). Never part
+// of npm test. BENCH_SECONDS sets the length of each load run (default 5).
+
+const SECONDS = Number(process.env['BENCH_SECONDS'] ?? 5);
+const CONNECTIONS = [1, 10, 50];
+const CLIENT_DIR = path.resolve('dist/specimetry/browser');
+
+function machine(): string {
+  return `${os.cpus()[0]?.model ?? 'unknown CPU'} x${os.cpus().length}, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version}, ${os.platform()} ${os.release()}`;
+}
+
+function printLoad(rows: LoadFigure[]): void {
+  console.log('| route | clients | requests | req/s | p50 ms | p95 ms | p99 ms | errors / non-2xx |');
+  console.log('|---|---:|---:|---:|---:|---:|---:|---:|');
+  for (const r of rows) console.log(`| ${r.name} | ${r.connections} | ${r.requests} | ${r.rps.toFixed(1)} | ${r.p50} | ${r.p95} | ${r.p99} | ${r.errors} / ${r.non2xx} |`);
+}
+
+async function benchServer(): Promise<void> {
+  console.log('Preparing a 10 000-run study (4 factors, values filled) and a 50 000-run study ...');
+  const { dataDir, sheet, importTarget } = await prepareData();
+  const { base, child } = await startServer(dataDir);
+  try {
+    const auth = await signInHttp(base);
+    const headers = { cookie: auth.cookie, 'x-xsrf-token': auth.xsrf };
+    const rows: LoadFigure[] = [];
+    for (const c of CONNECTIONS) rows.push(await load('GET run sheet (10 000 runs)', { url: `${base}/api/studies/${sheet.studyId}/runs`, connections: c, seconds: SECONDS, headers }));
+
+    const spec = JSON.stringify({ response: 'H', factors: ['W', 'A', 'K', 'O'] });
+    const probe = await fetch(`${base}/api/studies/${sheet.studyId}/analyses/preview`, { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: spec });
+    if (probe.status === 404) {
+      console.log('NOTE: POST /api/studies/:id/analyses/preview answered 404 — not built yet; analysis preview skipped.');
+    } else if (!probe.ok) {
+      console.log(`NOTE: analysis preview answered ${probe.status}: ${(await probe.text()).slice(0, 200)} — skipped.`);
+    } else {
+      for (const c of CONNECTIONS) {
+        rows.push(await load('POST analysis preview (10 000 runs, 4 factors)', { url: `${base}/api/studies/${sheet.studyId}/analyses/preview`, method: 'POST', connections: c, seconds: SECONDS, headers: { ...headers, 'content-type': 'application/json' }, body: spec }));
+      }
+    }
+    console.log(`\nLoad (${SECONDS} s per run; targets: run-sheet p95 <= 50 ms at 50 clients, preview p95 <= 200 ms):`);
+    printLoad(rows);
+
+    const file = csv([['Run', 'H', 'r', 'Notes'], ...importTarget.runs.map((r, i) => [r.code, (0.5 + (i % 97) / 100).toFixed(3), (1 + (i % 89) / 50).toFixed(3), `batch ${i % 7}`])]);
+    const form = new FormData();
+    form.set('file', new Blob([file], { type: 'text/csv' }), 'bench-50000.csv');
+    const t0 = performance.now();
+    const up = await fetch(`${base}/api/studies/${importTarget.studyId}/imports`, { method: 'POST', headers, body: form });
+    const t1 = performance.now();
+    const preview = (await up.json()) as { import?: { id: number; errorCount: number }; message?: string };
+    if (!up.ok || !preview.import) throw new Error(`import upload failed: ${up.status} ${preview.message}`);
+    const commit = await fetch(`${base}/api/studies/${importTarget.studyId}/imports/${preview.import.id}/commit`, { method: 'POST', headers });
+    const t2 = performance.now();
+    if (!commit.ok) throw new Error(`import commit failed: ${commit.status} ${(await commit.text()).slice(0, 200)}`);
+    console.log(`\n50 000-row CSV import (${(Buffer.byteLength(file) / 2 ** 20).toFixed(1)} MB, 2 responses + notes; target <= 3 s):`);
+    console.log(`  upload + parse + validate (preview): ${((t1 - t0) / 1000).toFixed(2)} s`);
+    console.log(`  commit (one transaction):            ${((t2 - t1) / 1000).toFixed(2)} s`);
+    console.log(`  total:                               ${((t2 - t0) / 1000).toFixed(2)} s`);
+  } finally {
+    child.kill('SIGTERM');
+    await new Promise((r) => child.once('exit', r));
+    rmSync(dataDir, { recursive: true, force: true });
+  }
+}
+
+/** Initial JS = the scripts index.html loads (module entry + modulepreload), gzip level 9 as a server would send. */
+function benchBundle(): void {
+  if (!existsSync(path.join(CLIENT_DIR, 'index.html'))) {
+    console.log('\nNo production build found; running npm run build ...');
+    execFileSync('npm', ['run', '--silent', 'build'], { stdio: 'inherit' });
+  }
+  const html = readFileSync(path.join(CLIENT_DIR, 'index.html'), 'utf8');
+  const files = [...new Set([...html.matchAll(/<script[^>]+src="([^"]+)"/g), ...html.matchAll(/<link[^>]+rel="modulepreload"[^>]+href="([^"]+)"/g)].map((m) => m[1]!))];
+  let raw = 0;
+  let gz = 0;
+  for (const f of files) {
+    const buf = readFileSync(path.join(CLIENT_DIR, f));
+    raw += buf.length;
+    gz += gzipSync(buf, { level: 9 }).length;
+  }
+  const css = [...html.matchAll(/<link[^>]+rel="stylesheet"[^>]+href="([^"]+)"/g)].map((m) => readFileSync(path.join(CLIENT_DIR, m[1]!)));
+  console.log(`\nInitial client bundle (target <= 400 kB gzip JS): ${files.length} script files, ${(raw / 1024).toFixed(1)} kB raw, ${(gz / 1024).toFixed(1)} kB gzip` + (css.length ? `; CSS ${(css.reduce((a, b) => a + gzipSync(b, { level: 9 }).length, 0) / 1024).toFixed(1)} kB gzip` : ''));
+}
+
+async function benchStats(): Promise<void> {
+  const file = path.resolve('tests/bench/stats-bench.ts');
+  if (!existsSync(file)) {
+    console.log('\nNOTE: tests/bench/stats-bench.ts does not exist yet; statistics benchmark skipped.');
+    return;
+  }
+  const mod = (await import('./stats-bench.js')) as { runStatsBench?: () => Promise<void> };
+  if (typeof mod.runStatsBench !== 'function') {
+    console.log('\nNOTE: stats-bench.ts exports no runStatsBench(); skipped.');
+    return;
+  }
+  console.log('\nStatistics engine:');
+  await mod.runStatsBench();
+}
+
+async function main(): Promise<void> {
+  console.log(`Specimetry benchmark — ${new Date().toISOString()}\nMachine: ${machine()}\n`);
+  await benchServer();
+  benchBundle();
+  await benchStats();
+}
+
+main().catch((err: unknown) => {
+  console.error('Benchmark failed:', err);
+  process.exit(1);
+});
