@@ -30,6 +30,21 @@ export const routes: Routes = [
         loadComponent: () => import('./studies/study-list').then((m) => m.StudyList),
       },
       {
+        path: 'calc/hill48',
+        title: 'Hill 1948 calculator · Specimetry',
+        loadComponent: () => import('./calc/hill-calculator').then((m) => m.HillCalculator),
+      },
+      {
+        path: 'studies/:id/derived',
+        title: 'Derived responses · Specimetry',
+        loadComponent: () => import('./calc/derived-responses').then((m) => m.DerivedResponses),
+      },
+      {
+        path: 'studies/:id/runs/:runId/angle',
+        title: 'Run angle · Specimetry',
+        loadComponent: () => import('./calc/run-angle').then((m) => m.RunAngle),
+      },
+      {
         path: 'account',
         title: 'Account · Specimetry',
         loadComponent: () => import('./account/account').then((m) => m.Account),

@@ -7,15 +7,15 @@ describe('navigationFor', () => {
   const paths = (role: Parameters<typeof navigationFor>[0], mailFake = true) => navigationFor(role, { mailFake }).map((i) => i.path);
 
   it('gives an administrator studies, the admin pages and the account', () => {
-    expect(paths('admin')).toEqual(['/studies', '/admin/users', '/admin/invitations', '/admin/outbox', '/account']);
+    expect(paths('admin')).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account']);
   });
 
   it.each(['engineer', 'statistician', 'supervisor'] as const)('gives %s no admin pages', (role) => {
-    expect(paths(role)).toEqual(['/studies', '/account']);
+    expect(paths(role)).toEqual(['/studies', '/calc/hill48', '/account']);
   });
 
   it('hides the mail outbox when mail goes to a real SMTP server', () => {
-    expect(paths('admin', false)).toEqual(['/studies', '/admin/users', '/admin/invitations', '/account']);
+    expect(paths('admin', false)).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/account']);
   });
 
   it('shows nothing to a signed-out visitor', () => {
@@ -27,7 +27,7 @@ describe('navigationFor', () => {
     expect(engineer.map((g) => g.label)).toEqual(['Work', 'You']);
     const admin = groupBySection(navigationFor('admin', { mailFake: true }));
     expect(admin.map((g) => [g.label, g.items.length])).toEqual([
-      ['Work', 1],
+      ['Work', 2],
       ['Administration', 3],
       ['You', 1],
     ]);
