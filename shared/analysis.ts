@@ -55,7 +55,9 @@ function checkSpec(s: z.infer<typeof specFields>, ctx: z.RefinementCtx): void {
 
 export const analysisSpec = specFields.superRefine(checkSpec);
 export type AnalysisSpecInput = z.input<typeof analysisSpec>;
-export type AnalysisSpec = z.infer<typeof analysisSpec> & { terms: string[] };
+export type AnalysisSpecParsed = z.infer<typeof analysisSpec>;
+/** A spec with its defaults filled in, as stored with a saved analysis. */
+export type AnalysisSpec = AnalysisSpecParsed & { terms: string[] };
 
 /** The default model: main effects, then every two-factor interaction in factor order. */
 export function defaultTerms(factors: readonly string[]): string[] {

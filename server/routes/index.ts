@@ -9,6 +9,9 @@ import { studiesRouter } from './studies.js';
 import { tokensRouter } from './tokens.js';
 import { resultsRouter } from './results.js';
 import { calcRouter } from './calc.js';
+import { analysesRouter } from './analyses.js';
+import { reviewsRouter } from './reviews.js';
+import { notificationsRouter } from './notifications.js';
 
 /**
  * Feature routers (studies, runs, analyses, tokens, ...) register here, each exporting
@@ -25,5 +28,8 @@ export function extraRouters(ctx: AppContext): Router[] {
     auditRouter(ctx),
     resultsRouter(ctx),
     calcRouter(ctx),
+    analysesRouter(ctx),
+    reviewsRouter(ctx),
+    notificationsRouter(ctx),
   ];
 }
