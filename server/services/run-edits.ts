@@ -58,7 +58,10 @@ export function applyRunEdits(db: Db, actor: Actor, studyId: number, edits: Edit
   const responses = new Map(setup.responses.map((r) => [r.symbol, r]));
   const factors = new Map(setup.factors.map((f) => [f.symbol, f]));
   const outcomeIds = new Map(setup.outcomes.map((o) => [o.id, o]));
-  const current = new Map(loadRuns(db, studyId, { ids: [...new Set(edits.map((e) => e.runId))], setup }).map((r) => [r.id, r]));
+  const ids = [...new Set(edits.map((e) => e.runId))];
+  // Large edits (imports, pushes) read the whole sheet in one pass: cheaper than an id filter of 10^4+ ids.
+  const loaded = ids.length > 1000 ? loadRuns(db, studyId, { includeRemoved: true, setup }) : loadRuns(db, studyId, { ids, setup });
+  const current = new Map(loaded.map((r) => [r.id, r]));
 
   const problems: Problem[] = [];
   const seen = new Set<number>();

@@ -40,24 +40,8 @@ export interface Run {
   updatedAt: number;
 }
 
-interface RunRowRaw {
-  id: number;
-  code: string;
-  standardOrder: number;
-  runOrder: number;
-  block: string;
-  centrePoint: number;
-  settings: string;
-  outcomeId: number | null;
-  outcomeReason: string;
-  operator: string;
-  testedOn: string;
-  notes: string;
-  removedAt: number | null;
-  removedReason: string | null;
-  version: number;
-  updatedAt: number;
-}
+/** Column order of the runs query, read with .raw() (arrays are cheaper than row objects at 10^4-10^5 rows). */
+type RunRowRaw = [number, string, number, number, string, number, string, number | null, string, string, string, string, number | null, string | null, number, number];
 
 export function isOutOfRange(r: Pick<ResponseRow, 'rangeMin' | 'rangeMax'>, value: number): boolean {
   return (r.rangeMin !== null && value < r.rangeMin) || (r.rangeMax !== null && value > r.rangeMax);
@@ -75,27 +59,29 @@ export function loadRuns(db: Db, studyId: number, opts: { includeRemoved?: boole
   const c = db.$client;
   const rows = c
     .prepare(
-      `select r.id, r.code, r.standard_order as standardOrder, r.run_order as runOrder, r.block, r.centre_point as centrePoint,
-         r.settings, r.outcome_id as outcomeId, r.outcome_reason as outcomeReason, r.operator, r.tested_on as testedOn, r.notes,
-         r.removed_at as removedAt, r.removed_reason as removedReason, r.version, r.updated_at as updatedAt
+      `select r.id, r.code, r.standard_order, r.run_order, r.block, r.centre_point, r.settings, r.outcome_id, r.outcome_reason,
+         r.operator, r.tested_on, r.notes, r.removed_at, r.removed_reason, r.version, r.updated_at
        from runs r where r.study_id = ?${idFilter}${removedFilter} order by r.run_order, r.id`,
     )
+    .raw()
     .all(...args) as RunRowRaw[];
   const invalidOutcomes = new Set(setup.outcomes.filter((o) => !o.valid).map((o) => o.id));
   const byId = new Map<number, Run>();
-  const out: Run[] = rows.map((r) => {
+  const out: Run[] = new Array<Run>(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const [id, code, standardOrder, runOrder, block, centre, settings, outcomeId, outcomeReason, operator, testedOn, notes, removedAt, removedReason, version, updatedAt] = rows[i]!;
+    // Built as one literal with a fixed shape: V8 keeps these objects fast, where spreads were the
+    // largest cost of a 50 000-run load.
     const run: Run = {
-      ...r,
-      centrePoint: r.centrePoint === 1,
-      settings: JSON.parse(r.settings) as Record<string, string>,
-      measured: {},
-      values: {},
-      excluded: r.removedAt !== null || (r.outcomeId !== null && invalidOutcomes.has(r.outcomeId)),
-      attachmentCount: 0,
+      id, code, standardOrder, runOrder, block, centrePoint: centre === 1,
+      settings: JSON.parse(settings) as Record<string, string>,
+      measured: {}, values: {}, outcomeId, outcomeReason,
+      excluded: removedAt !== null || (outcomeId !== null && invalidOutcomes.has(outcomeId)),
+      operator, testedOn, notes, attachmentCount: 0, removedAt, removedReason, version, updatedAt,
     };
-    byId.set(r.id, run);
-    return run;
-  });
+    byId.set(id, run);
+    out[i] = run;
+  }
   if (out.length === 0) return out;
 
   const responseById = new Map(setup.responses.map((x) => [x.id, x]));

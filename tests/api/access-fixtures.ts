@@ -1,6 +1,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import type { RouteInfo } from '../../server/auth/route-list.js';
+import { analyses } from '../../server/db/schema.js';
 import { addAttachment, attachmentDir } from '../../server/services/attachments.js';
 import { createImport } from '../../server/services/imports.js';
 import type { Role, StudyRole } from '../../shared/roles.js';
@@ -34,6 +35,9 @@ export async function accessFixtures(t: TestApp): Promise<AccessFixtures> {
   mkdirSync(tmp, { recursive: true });
   const file = path.join(tmp, 'walk-upload');
   writeFileSync(file, 'walk attachment\n');
+  // `/analyses/:id` takes the same :id as the study routes: an analysis with the study's id (of the
+  // walk study) lets one parameter value serve both route families.
+  t.ctx.db.insert(analyses).values({ id: study.id, studyId: study.id, title: 'Walk analysis', spec: {}, result: {}, engineVersion: 'walk', dataHash: 'walk', dataSnapshot: [], createdBy: engineer.userId }).run();
   const att = await addAttachment(t.ctx.db, t.ctx.config.dataDir, engineer, study.id, runId, { path: file, originalname: 'walk.txt', size: 16 }, 'raw');
   return {
     params: { id: study.id, runId, importId: imp.id, attachmentId: att.id },
