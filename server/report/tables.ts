@@ -27,7 +27,8 @@ export function n6(x: number | null | undefined): string {
 export function p3(p: number | null | undefined): string {
   if (p === null || p === undefined || !Number.isFinite(p)) return '–';
   if (p < 1e-16) return '< 1e-16';
-  return p < 0.001 ? p.toExponential(2) : String(Number(p.toPrecision(3)));
+  // toPrecision keeps trailing zeros ("0.0210"), so the printed digits are the significant ones.
+  return p < 0.001 ? p.toExponential(2) : p.toPrecision(3);
 }
 
 export function dateText(ms: number): string {

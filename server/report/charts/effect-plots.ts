@@ -14,14 +14,17 @@ function tooltipText(factorLabel: string, p: PlotPoint, seriesLabel?: string): s
 }
 
 function levelAxis(theme: ChartTheme, name: string, levels: string[]) {
+  const base = axisStyle(theme, name);
+  const at = levels.map((_, i) => i);
   return {
     type: 'value' as const,
-    ...axisStyle(theme, name),
+    ...base,
     min: -0.5,
     max: levels.length - 0.5,
-    interval: 1,
     splitLine: { show: false },
-    axisLabel: { ...axisStyle(theme, name).axisLabel, formatter: (v: number) => (Number.isInteger(v) ? (levels[v] ?? '') : '') },
+    // Ticks and labels only at the level positions 0, 1, 2, …; the half steps are padding.
+    axisTick: { ...base.axisTick, customValues: at },
+    axisLabel: { ...base.axisLabel, customValues: at, formatter: (v: number) => levels[Math.round(v)] ?? '' },
   };
 }
 

@@ -46,7 +46,8 @@ export function axisStyle(theme: ChartTheme, name: string) {
     nameLocation: 'middle' as const,
     nameGap: 30,
     nameTextStyle: { color: theme.text, fontSize: 12, fontFamily: theme.fontFamily },
-    axisLine: { lineStyle: { color: theme.axis } },
+    // Axes stay at the edge of the grid: with onZero an axis would cut through the data at 0.
+    axisLine: { onZero: false, lineStyle: { color: theme.axis } },
     axisTick: { lineStyle: { color: theme.axis } },
     axisLabel: { color: theme.muted, fontSize: 11, fontFamily: theme.fontFamily },
     splitLine: { lineStyle: { color: theme.grid, type: 'dashed' as const } },
