@@ -77,6 +77,10 @@ export class HillCalculator {
     const c = r.coefficients;
     return `Yield loci in the σ1–σ2 plane: Hill 1948 with F ${c.F.toFixed(3)}, G ${c.G.toFixed(3)}, H ${c.H.toFixed(3)} (solid) and von Mises (dashed)`;
   });
+  protected readonly lociCoincide = computed(() => {
+    const r = this.hill();
+    return !!r && r.locus.hill.every((p, i) => Math.hypot(p.s1 - r.locus.vonMises[i]!.s1, p.s2 - r.locus.vonMises[i]!.s2) < 1e-9);
+  });
   protected readonly freeNeckLabel = computed(() => {
     const f = this.hill()?.freeNeck;
     return f ? `${f.neckAnglesDeg[0].toFixed(2)}°` : null;

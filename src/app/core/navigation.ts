@@ -21,7 +21,7 @@ export const ADMIN_ONLY: readonly Role[] = ['admin'];
 
 const ENTRIES: readonly NavEntry[] = [
   { path: '/studies', label: 'Studies', icon: 'science', section: 'work', roles: ALL_ROLES },
-  { path: '/calc/hill48', label: 'Hill 1948 calculator', icon: 'calculate', section: 'work', roles: ALL_ROLES },
+  { path: '/calc/hill48', label: 'Hill calculator', icon: 'calculate', section: 'work', roles: ALL_ROLES },
   { path: '/admin/users', label: 'Users', icon: 'group', section: 'admin', roles: ADMIN_ONLY },
   { path: '/admin/invitations', label: 'Invitations', icon: 'person_add', section: 'admin', roles: ADMIN_ONLY },
   { path: '/admin/outbox', label: 'Mail outbox', icon: 'outbox', section: 'admin', roles: ADMIN_ONLY, needsMailFake: true },
