@@ -7,7 +7,7 @@ import { actorOf } from '../services/actor.js';
 import { getAnalysisRow } from '../services/analysis.js';
 import { currentRecommendation, putRecommendation } from '../services/recommendation.js';
 import { addComment, listThreads, resolveThread } from '../services/review-comments.js';
-import { approveAnalysis, listReviewRequests, requestReview, returnAnalysis } from '../services/review.js';
+import { approveAnalysis, listReviewRequests, requestReview, requireSignOffRole, returnAnalysis } from '../services/review.js';
 import { requestOrigin } from './auth.js';
 import { analysisOf, analysisStudy, detailFor } from './analyses.js';
 
@@ -51,6 +51,7 @@ export function reviewsRouter(ctx: AppContext): Router {
   // The supervisor requirement is also checked in the service, which refuses admins as well:
   // signing off is a qualified person's act, not an administrative one.
   r.post('/analyses/:id/approve', on(['reviewer'], 'write', ['supervisor']), (req, res) => {
+    requireSignOffRole(actorOf(req), req.study!.role, 'signs off');
     const body = approveBody.parse(req.body ?? {});
     const row = analysisOf(ctx.db, req);
     approveAnalysis(ctx.db, actorOf(req), req.study!.role, row, body.note);
@@ -58,6 +59,7 @@ export function reviewsRouter(ctx: AppContext): Router {
   });
 
   r.post('/analyses/:id/return', on(['reviewer'], 'write', ['supervisor']), (req, res) => {
+    requireSignOffRole(actorOf(req), req.study!.role, 'returns');
     const body = returnBody.parse(req.body);
     const row = analysisOf(ctx.db, req);
     returnAnalysis(ctx.db, actorOf(req), req.study!.role, row, body.reason);

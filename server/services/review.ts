@@ -131,9 +131,14 @@ export function approveAnalysis(db: Db, actor: Actor, studyRole: string, row: An
   });
 }
 
+/** Sign-off and return are a supervisor reviewer's acts; admins pass the study policy but not this. */
+export function requireSignOffRole(actor: Actor, studyRole: string, what: string): void {
+  if (actor.role !== 'supervisor') throw new HttpError(403, `Only a supervisor ${what} an analysis; you are signed in as ${actor.role}`);
+  if (studyRole !== 'reviewer') throw new HttpError(403, `This needs the study role reviewer; you are ${studyRole} in this study`);
+}
+
 export function returnAnalysis(db: Db, actor: Actor, studyRole: string, row: AnalysisRow, reason: string): void {
-  if (actor.role !== 'supervisor') throw new HttpError(403, `Only a supervisor returns an analysis; you are signed in as ${actor.role}`);
-  if (studyRole !== 'reviewer') throw new HttpError(403, `Returning needs the study role reviewer; you are ${studyRole} in this study`);
+  requireSignOffRole(actor, studyRole, 'returns');
   if (row.status !== 'in_review') throw new HttpError(409, `Analysis ${row.id} is ${row.status.replace('_', ' ')}; only an analysis in review can be returned`);
   const study = studyOfAnalysis(db, row.id);
   db.transaction((tx) => {

@@ -1,12 +1,12 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import type { RouteInfo } from '../../server/auth/route-list.js';
-import { analyses } from '../../server/db/schema.js';
 import { addAttachment, attachmentDir } from '../../server/services/attachments.js';
 import { createImport } from '../../server/services/imports.js';
 import type { Role, StudyRole } from '../../shared/roles.js';
 import type { TestApp } from './harness.js';
 import { actorFor, makeStudy } from './study-fixtures.js';
+import { insertWalkAnalysis } from './analysis-fixtures.js';
 
 export type Expectation = 'allowed' | 'unauthenticated' | 'forbidden' | 'hidden';
 
@@ -26,6 +26,9 @@ export interface AccessFixtures {
  */
 export const WALK_MEMBERSHIP: Partial<Record<Role, StudyRole>> = { engineer: 'owner', statistician: 'reviewer', supervisor: 'viewer' };
 
+/** Routes only a supervisor reviewer may call, admins included in the refusal. */
+const SIGN_OFF = new Set(['/analyses/:id/approve', '/analyses/:id/return']);
+
 export async function accessFixtures(t: TestApp): Promise<AccessFixtures> {
   const study = makeStudy(t, { title: 'Access walk study' });
   const engineer = actorFor(t, 'engineer');
@@ -37,7 +40,7 @@ export async function accessFixtures(t: TestApp): Promise<AccessFixtures> {
   writeFileSync(file, 'walk attachment\n');
   // `/analyses/:id` takes the same :id as the study routes: an analysis with the study's id (of the
   // walk study) lets one parameter value serve both route families.
-  t.ctx.db.insert(analyses).values({ id: study.id, studyId: study.id, title: 'Walk analysis', spec: {}, result: {}, engineVersion: 'walk', dataHash: 'walk', dataSnapshot: [], createdBy: engineer.userId }).run();
+  insertWalkAnalysis(t.ctx, study.id, engineer.userId, study.id);
   const att = await addAttachment(t.ctx.db, t.ctx.config.dataDir, engineer, study.id, runId, { path: file, originalname: 'walk.txt', size: 16 }, 'raw');
   return {
     params: { id: study.id, runId, importId: imp.id, attachmentId: att.id },
@@ -47,7 +50,8 @@ export async function accessFixtures(t: TestApp): Promise<AccessFixtures> {
       if (p.kind === 'public') return 'allowed';
       if (who === 'anonymous') return 'unauthenticated';
       if (p.kind === 'roles') return !p.roles || p.roles.includes(who) ? 'allowed' : 'forbidden';
-      if (who === 'admin') return 'allowed';
+      // Signing off is a supervisor's act: the analysis service refuses admins too (review.spec.ts).
+      if (who === 'admin') return SIGN_OFF.has(route.path) ? 'forbidden' : 'allowed';
       const role = WALK_MEMBERSHIP[who];
       if (!role) return 'hidden';
       if (!p.studyRoles.includes(role)) return 'forbidden';

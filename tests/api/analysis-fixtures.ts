@@ -2,7 +2,10 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { eq } from 'drizzle-orm';
 import type { AppContext } from '../../server/context.js';
-import { factors, outcomes, responses, runs, runValues, studies, studyMembers, users } from '../../server/db/schema.js';
+import { analyses, factors, outcomes, responses, runs, runValues, studies, studyMembers, users } from '../../server/db/schema.js';
+import { dataHash } from '../../server/services/analysis-data.js';
+import { readingsFor } from '../../server/services/analysis-summary.js';
+import { analyse } from '../../server/stats/analyse.js';
 import { DEFAULT_OUTCOMES } from '../../shared/studies.js';
 import type { StudyRole } from '../../shared/roles.js';
 import { DEMO_EMAIL } from './harness.js';
@@ -98,4 +101,23 @@ export function warpbreaksStudy(members: FixtureStudy['members'] = []): FixtureS
 /** Relative difference, for comparisons with reference values. */
 export function rel(a: number, b: number): number {
   return Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
+}
+
+/**
+ * A saved analysis for the access-policy walk: a real stored result (the engine run on a small
+ * invented 2 x 3 layout) over an empty selection of the walk study, so every analysis route —
+ * view, report, review, sign-off — has something valid to act on.
+ */
+export function insertWalkAnalysis(ctx: AppContext, studyId: number, createdBy: number, id?: number): number {
+  const spec = { response: 'H', factors: ['A', 'B'], terms: ['A', 'B', 'A:B'], ssType: 2 as const, alpha: 0.05, excludeInvalid: true };
+  const rows = ['0.5', '0.8'].flatMap((a, i) => ['round', 'vee', 'flat'].flatMap((b, j) => [0, 1].map((r) => ({ factors: { A: a, B: b }, value: String(0.4 + 0.1 * i + 0.05 * j + 0.01 * r) }))));
+  const engine = analyse({ rows, response: 'H', factors: ['A', 'B'], terms: spec.terms, tests: ['shapiro', 'levene'] });
+  const counts = { total: 0, used: 0, removed: 0, centrePoints: 0, excludedInvalid: 0, byReason: [], invalidIncluded: 0, missingValue: 0 };
+  const stored = { engine, counts, summary: 'walk fixture', readings: readingsFor(engine, 0.05), rowCodes: rows.map((_, i) => `W${i + 1}`) };
+  const row = ctx.db
+    .insert(analyses)
+    .values({ ...(id === undefined ? {} : { id }), studyId, title: 'Walk analysis', spec, result: stored as unknown as Record<string, unknown>, engineVersion: engine.engineVersion, dataHash: dataHash(studyId, spec, []), dataSnapshot: [], createdBy })
+    .returning({ id: analyses.id })
+    .get();
+  return row.id;
 }
