@@ -18,7 +18,7 @@ const idParam = (name: string) => z.coerce.number({ message: `${name} must be a 
 /**
  * Response calculator (issue 7). The Hill 1948 relations are open to every signed-in user (pure
  * computation, nothing stored); the per-run angle and the derived H live under their study: members
- * read and compute, owners and contributors store. Contract in docs/api-calc.md.
+ * read and compute, owners and contributors store. Bodies: shared/calc.ts; reference: GET /api/openapi.json.
  */
 export function calcRouter(ctx: AppContext): Router {
   const r = Router();

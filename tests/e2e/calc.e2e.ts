@@ -1,6 +1,12 @@
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { type Browser, DEMO_PASSWORD, launchBrowser, screenshot, signIn } from './browser';
+import { type Browser, DEMO_PASSWORD, launchBrowser, screenshot as save, signIn } from './browser';
+
+/** Full-page screenshots from the top, so the sticky top bar is not captured mid-page. */
+async function screenshot(page: Page, name: string): Promise<void> {
+  await page.evaluate(() => window.scrollTo(0, 0));
+  await save(page, name);
+}
 
 // The Hill 1948 calculator in a real browser. Expected: for r0 = r45 = r90 = 1 (isotropy) the free
 // neck in uniaxial tension lies at arctan √2 = 54.74° from the tensile axis (R. Hill, J. Mech. Phys.

@@ -140,8 +140,9 @@ export function angleOptions(r: AngleResultDto, p: ChartPalette): EChartsCoreOpt
   }
   if (plateau) series.push({ name: 'plateau band', type: 'line', data: [], lineStyle: { color: p.band, type: 'dashed', width: 2 }, itemStyle: { color: p.band } });
   const ys = [...used, ...below].map((d) => d.value[1] as number);
-  const lo = Math.floor(Math.min(...ys) - 2);
-  const hi = Math.ceil(Math.max(...ys) + 3);
+  // Whole multiples of 5° keep the ticks on round angles.
+  const lo = Math.floor((Math.min(...ys) - 2) / 5) * 5;
+  const hi = Math.ceil((Math.max(...ys) + 3) / 5) * 5;
   return {
     ...common(p),
     grid: { left: 64, right: 32, top: 48, bottom: 56 },
