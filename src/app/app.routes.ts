@@ -50,6 +50,16 @@ export const routes: Routes = [
         loadComponent: () => import('./account/account').then((m) => m.Account),
       },
       {
+        path: 'tokens',
+        title: 'API tokens · Specimetry',
+        loadComponent: () => import('./tokens/tokens').then((m) => m.Tokens),
+      },
+      {
+        path: 'api-docs',
+        title: 'API reference · Specimetry',
+        loadComponent: () => import('./api-docs/api-docs').then((m) => m.ApiDocs),
+      },
+      {
         path: 'admin',
         canActivate: [roleGuard(ADMIN_ONLY)],
         children: [

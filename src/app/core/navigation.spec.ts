@@ -2,20 +2,20 @@ import { describe, expect, it } from 'vitest';
 import { groupBySection, navigationFor } from './navigation';
 
 // Expected menus come from the foundation issue (issue 2) and the client brief: studies and account for
-// every signed-in role; users, invitations and the mail outbox (only while the fake SMTP runs) for admin only.
+// every signed-in role (with the API tokens and API reference pages of issue 6); users, invitations and the mail outbox (only while the fake SMTP runs) for admin only.
 describe('navigationFor', () => {
   const paths = (role: Parameters<typeof navigationFor>[0], mailFake = true) => navigationFor(role, { mailFake }).map((i) => i.path);
 
   it('gives an administrator studies, the admin pages and the account', () => {
-    expect(paths('admin')).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account']);
+    expect(paths('admin')).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account', '/tokens', '/api-docs']);
   });
 
   it.each(['engineer', 'statistician', 'supervisor'] as const)('gives %s no admin pages', (role) => {
-    expect(paths(role)).toEqual(['/studies', '/calc/hill48', '/account']);
+    expect(paths(role)).toEqual(['/studies', '/calc/hill48', '/account', '/tokens', '/api-docs']);
   });
 
   it('hides the mail outbox when mail goes to a real SMTP server', () => {
-    expect(paths('admin', false)).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/account']);
+    expect(paths('admin', false)).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/account', '/tokens', '/api-docs']);
   });
 
   it('shows nothing to a signed-out visitor', () => {
@@ -29,7 +29,7 @@ describe('navigationFor', () => {
     expect(admin.map((g) => [g.label, g.items.length])).toEqual([
       ['Work', 2],
       ['Administration', 3],
-      ['You', 1],
+      ['You', 3],
     ]);
   });
 });

@@ -26,6 +26,8 @@ const ENTRIES: readonly NavEntry[] = [
   { path: '/admin/invitations', label: 'Invitations', icon: 'person_add', section: 'admin', roles: ADMIN_ONLY },
   { path: '/admin/outbox', label: 'Mail outbox', icon: 'outbox', section: 'admin', roles: ADMIN_ONLY, needsMailFake: true },
   { path: '/account', label: 'Account', icon: 'manage_accounts', section: 'you', roles: ALL_ROLES },
+  { path: '/tokens', label: 'API tokens', icon: 'key', section: 'you', roles: ALL_ROLES },
+  { path: '/api-docs', label: 'API reference', icon: 'api', section: 'you', roles: ALL_ROLES },
 ];
 
 export const SECTION_LABELS: Record<NavItem['section'], string> = {
