@@ -37,7 +37,7 @@ describe('signing in as each demo role', () => {
       expect(new URL(page.url()).pathname).toBe('/studies');
       expect(await navTargets(page)).toEqual(expected.nav);
       expect((await page.getByTestId('signed-in-role').textContent())?.trim()).toBe(expected.label);
-      await page.getByTestId('studies-empty').waitFor();
+      await page.getByRole('heading', { name: 'Studies', level: 1 }).waitFor();
       await screenshot(page, `studies-${role}`);
       await signOut(page);
     });
@@ -78,5 +78,24 @@ describe('signing in as each demo role', () => {
     // API contract (issue 2): 401 {message: "E-mail or password is not correct"}.
     await page.getByTestId('form-error').getByText('E-mail or password is not correct').waitFor();
     await screenshot(page, 'sign-in-wrong-password');
+  });
+
+  it('remembers the dark colour scheme chosen in the top bar across a reload', async () => {
+    const { page } = browser;
+    await signIn(page, 'statistician@specimetry.test', DEMO_PASSWORD);
+    await page.goto('/account');
+    await page.getByRole('button', { name: 'Choose light or dark colours' }).click();
+    await page.getByRole('menuitemradio', { name: 'Dark' }).click();
+    await page.reload();
+    await page.getByRole('heading', { name: 'Your account' }).waitFor();
+    expect(await page.evaluate(() => document.documentElement.style.colorScheme)).toBe('dark');
+    // The theme's light-dark() surfaces must actually switch: a dark page background (channel sum < 150 of 765).
+    const background = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+    const channels = (background.match(/\d+/g) ?? []).slice(0, 3).map(Number);
+    expect(channels.reduce((a, b) => a + b, 0)).toBeLessThan(150);
+    await screenshot(page, 'account-dark');
+    await page.getByRole('button', { name: 'Choose light or dark colours' }).click();
+    await page.getByRole('menuitemradio', { name: 'Follow the system' }).click();
+    await signOut(page);
   });
 });

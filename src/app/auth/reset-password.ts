@@ -95,7 +95,7 @@ export class ResetPassword {
     if (!(error instanceof ApiError)) {
       this.failure.set('The request failed. Try again.');
     } else if (!showServerErrors(form, error)) {
-      this.failure.set(error.status === 400 && this.token() ? `${error.message} The link may have expired or been used already: request a new one.` : error.message);
+      this.failure.set(error.message);
     }
   }
 }
