@@ -1,6 +1,7 @@
 import { HttpClient, HttpContext, HttpEvent, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { Observable, map } from 'rxjs';
+import { Observable, catchError, map, of } from 'rxjs';
+import type { OperationProgress } from '../../../shared/operations';
 import type { StudyRole } from '../../../shared/roles';
 import type { PlanBody, RunBatchBody, RunEdit, RunPatchBody } from '../../../shared/runs';
 import type { FactorInput, OutcomesBody, ResponseInput, StudyCreateBody, StudyListQuery, StudyPatchBody } from '../../../shared/studies';
@@ -160,6 +161,15 @@ export class StudyApi {
 
   discardImport(id: number, importId: number): Observable<ImportPreview> {
     return this.http.delete<{ import: ImportPreview }>(`${this.base}/${id}/imports/${importId}`).pipe(map((r) => r.import));
+  }
+
+  /** Progress of a long server operation; null while the server has not registered it (or never does). */
+  operation(operationId: string): Observable<OperationProgress | null> {
+    return this.http.get<{ operation: OperationProgress }>(`/api/operations/${operationId}`, inline()).pipe(
+      map((r) => r.operation),
+      // Expected: 404 before the server starts tracking the operation; the bar stays indeterminate.
+      catchError(() => of(null)),
+    );
   }
 
   audit(id: number, filters: Record<string, string | number | undefined>): Observable<{ events: AuditEvent[]; total: number }> {
