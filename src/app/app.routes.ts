@@ -30,6 +30,10 @@ export const routes: Routes = [
         loadComponent: () => import('./studies/study-list').then((m) => m.StudyList),
       },
       {
+        path: 'studies/:id',
+        loadChildren: () => import('./studies/study.routes').then((m) => m.STUDY_ROUTES),
+      },
+      {
         path: 'calc/hill48',
         title: 'Hill 1948 calculator · Specimetry',
         loadComponent: () => import('./calc/hill-calculator').then((m) => m.HillCalculator),
@@ -43,6 +47,11 @@ export const routes: Routes = [
         path: 'studies/:id/runs/:runId/angle',
         title: 'Run angle · Specimetry',
         loadComponent: () => import('./calc/run-angle').then((m) => m.RunAngle),
+      },
+      {
+        path: 'notifications',
+        title: 'Notifications · Specimetry',
+        loadComponent: () => import('./notifications/notifications-page').then((m) => m.NotificationsPage),
       },
       {
         path: 'account',
