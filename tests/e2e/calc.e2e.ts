@@ -4,7 +4,7 @@ import { type Browser, DEMO_PASSWORD, launchBrowser, screenshot as save, signIn 
 
 /** Full-page screenshots from the top, so the sticky top bar is not captured mid-page. */
 async function screenshot(page: Page, name: string): Promise<void> {
-  await page.evaluate(() => window.scrollTo(0, 0));
+  await page.evaluate('window.scrollTo(0, 0)');
   await save(page, name);
 }
 
