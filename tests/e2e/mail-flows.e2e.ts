@@ -143,4 +143,26 @@ describe('accounts by e-mail link', () => {
     await page.getByTestId('form-error').waitFor();
     await screenshot(page, 'reset-link-used');
   });
+
+  it('lets the administrator change the role and deactivate the account, which ends its session', async () => {
+    const page = admin.page;
+    await signIn(invitee.page, INVITEE.email, SECOND_PASSWORD);
+    await page.goto('/admin/users');
+    const row = page.locator(`[data-user="${INVITEE.email}"]`);
+    await row.locator('mat-select').click();
+    await page.getByRole('option', { name: 'Supervisor' }).click();
+    await page.getByText(`${INVITEE.name} is now Supervisor.`).waitFor();
+
+    await row.getByRole('button', { name: 'Deactivate' }).click();
+    await row.getByText('Deactivated').waitFor();
+    await screenshot(page, 'users-deactivated');
+
+    // Issue 2: a deactivated user's sessions end. The next call gets 401 and the app shows sign-in.
+    await invitee.page.goto('/account');
+    await invitee.page.waitForURL((url) => url.pathname === '/sign-in');
+    await invitee.page.locator('input[name=email]').fill(INVITEE.email);
+    await invitee.page.locator('input[name=password]').fill(SECOND_PASSWORD);
+    await invitee.page.getByRole('button', { name: 'Sign in', exact: true }).click();
+    await invitee.page.getByTestId('form-error').waitFor();
+  });
 });
