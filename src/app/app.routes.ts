@@ -29,15 +29,7 @@ export const routes: Routes = [
         title: 'Studies · Specimetry',
         loadComponent: () => import('./studies/study-list').then((m) => m.StudyList),
       },
-      {
-        path: 'studies/:id',
-        loadChildren: () => import('./studies/study.routes').then((m) => m.STUDY_ROUTES),
-      },
-      {
-        path: 'calc/hill48',
-        title: 'Hill 1948 calculator · Specimetry',
-        loadComponent: () => import('./calc/hill-calculator').then((m) => m.HillCalculator),
-      },
+      // The calculator's study pages come before the study tabs, so they match without relying on backtracking.
       {
         path: 'studies/:id/derived',
         title: 'Derived responses · Specimetry',
@@ -47,6 +39,15 @@ export const routes: Routes = [
         path: 'studies/:id/runs/:runId/angle',
         title: 'Run angle · Specimetry',
         loadComponent: () => import('./calc/run-angle').then((m) => m.RunAngle),
+      },
+      {
+        path: 'studies/:id',
+        loadChildren: () => import('./studies/study.routes').then((m) => m.STUDY_ROUTES),
+      },
+      {
+        path: 'calc/hill48',
+        title: 'Hill 1948 calculator · Specimetry',
+        loadComponent: () => import('./calc/hill-calculator').then((m) => m.HillCalculator),
       },
       {
         path: 'notifications',
