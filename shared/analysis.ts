@@ -38,6 +38,8 @@ const specFields = z.object({
   ssType: z.union([z.literal(1), z.literal(2), z.literal(3)], { message: 'ssType must be 1, 2 or 3' }).default(2),
   alpha: z.number().gt(0, 'alpha must be above 0').max(0.2, 'alpha must be at most 0.2').default(0.05),
   excludeInvalid: z.boolean().default(true),
+  /** Tukey comparisons for the significant terms (always computed when saving). */
+  posthoc: z.boolean().default(true),
 });
 
 function checkSpec(s: z.infer<typeof specFields>, ctx: z.RefinementCtx): void {
@@ -158,8 +160,21 @@ export interface DataChanges {
   edited: { runId: number; code: string; field: string; oldValue: string | null; newValue: string | null }[];
 }
 
+/** Tukey HSD for one significant term, with the model's residual mean square (R's TukeyHSD on the model). */
+export interface PosthocTerm {
+  term: string;
+  groups: { label: string; n: number; mean: number }[];
+  /** diff = mean(b) - mean(a), simultaneous interval at confLevel, adjusted p */
+  comparisons: { a: string; b: string; diff: number; lower: number; upper: number; p: number }[];
+  mse: number;
+  df: number;
+  confLevel: number;
+}
+
 export interface PreviewResponse {
   result: AnalysisResult;
+  /** Tukey HSD per significant term (empty when none is significant or posthoc was false) */
+  posthoc: PosthocTerm[];
   counts: RunCounts;
   summary: string;
   readings: Readings;
@@ -171,6 +186,7 @@ export interface PreviewResponse {
 /** What is stored in analyses.result. */
 export interface StoredResult {
   engine: AnalysisResult;
+  posthoc: PosthocTerm[];
   counts: RunCounts;
   summary: string;
   readings: Readings;
@@ -210,6 +226,7 @@ export interface ReviewRequestItem {
 
 export interface AnalysisDetail extends AnalysisSummaryItem {
   result: AnalysisResult;
+  posthoc: PosthocTerm[];
   counts: RunCounts;
   summary: string;
   readings: Readings;

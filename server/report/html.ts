@@ -42,7 +42,8 @@ export function renderReportHtml(m: ReportModel): string {
   const s = m.study;
   const tables = allTables(m);
   const byId = new Map(tables.map((t) => [t.id, t]));
-  const rest = tables.filter((t) => !['design', 'counts', 'anova', 'tukey', 'assumptions'].includes(t.id));
+  const rest = tables.filter((t) => t.id.startsWith('descriptives:'));
+  const tukey = tables.filter((t) => t.id.startsWith('tukey:'));
   const material: [string, string][] = [
     ['Specimen family', s.specimenFamily], ['Material grade', s.materialGrade], ['Batch / heat / coil', s.batch],
     ['Sheet thickness', s.thicknessMm === null ? '' : `${s.thicknessMm} mm`], ['Orientation to rolling direction', s.orientationDeg === null ? '' : `${s.orientationDeg}°`],
@@ -76,7 +77,7 @@ ${rest.map(table).join('')}
 ${t('assumptions')}
 <p class="reading">${e(m.readings.assumptions)}</p>
 <h2>Post-hoc comparisons</h2>
-${t('tukey') || '<p>No Tukey comparisons.</p>'}
+${tukey.map(table).join('') || '<p>No Tukey comparisons (no significant term).</p>'}
 <p class="reading">${e(m.readings.posthoc)}</p>
 <h2>Dispersion</h2>
 <p class="reading">${e(m.readings.dispersion)}</p>

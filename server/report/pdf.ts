@@ -154,8 +154,7 @@ export function renderReportPdf(m: ReportModel): Promise<Buffer> {
   para(doc, m.readings.assumptions, { colour: '#2f4f3f' });
 
   heading(doc, 'Post-hoc comparisons');
-  const tk = tables.get('tukey');
-  if (tk) table(doc, tk);
+  for (const [id, t] of tables) if (id.startsWith('tukey:')) table(doc, t);
   para(doc, m.readings.posthoc, { colour: '#2f4f3f' });
 
   heading(doc, 'Dispersion');

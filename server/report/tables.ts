@@ -93,16 +93,14 @@ export function descriptiveTables(m: ReportModel): Table[] {
   return out;
 }
 
-export function tukeyTable(m: ReportModel): Table | null {
-  const t = m.result.tests.tukey;
-  if (!t || !t.length) return null;
-  return {
-    id: 'tukey',
-    title: `Tukey HSD over the cells (${n6(100 * (1 - m.design.alpha))} % simultaneous intervals)`,
+export function tukeyTables(m: ReportModel): Table[] {
+  return m.posthoc.map((t) => ({
+    id: `tukey:${t.term}`,
+    title: `Tukey HSD for ${t.term} (${n6(100 * t.confLevel)} % simultaneous intervals, MSE ${n6(t.mse)} on ${t.df} df)`,
     headers: ['Comparison', 'difference', 'lower', 'upper', 'adjusted p'],
-    rows: t.map((c) => [`${c.b} − ${c.a}`, n6(c.diff), n6(c.lower), n6(c.upper), p3(c.p)]),
-    marked: t.flatMap((c, i) => (c.p < m.design.alpha ? [i] : [])),
-  };
+    rows: t.comparisons.map((c) => [`${c.b} − ${c.a}`, n6(c.diff), n6(c.lower), n6(c.upper), p3(c.p)]),
+    marked: t.comparisons.flatMap((c, i) => (c.p < m.design.alpha ? [i] : [])),
+  }));
 }
 
 export function assumptionTable(m: ReportModel): Table {
@@ -119,8 +117,6 @@ export function assumptionTable(m: ReportModel): Table {
 
 export function allTables(m: ReportModel): Table[] {
   const out = [designTable(m), countsTable(m), anovaTable(m), ...descriptiveTables(m)];
-  const tk = tukeyTable(m);
-  if (tk) out.push(tk);
-  out.push(assumptionTable(m));
+  out.push(...tukeyTables(m), assumptionTable(m));
   return out;
 }

@@ -1,4 +1,4 @@
-import type { AnalysisResult, AnovaEffectRow, Readings, RunCounts } from '../../shared/analysis.js';
+import type { AnalysisResult, AnovaEffectRow, PosthocTerm, Readings, RunCounts } from '../../shared/analysis.js';
 import { fSentence } from '../stats/anova-one-way.js';
 import { formatP } from '../stats/distributions.js';
 
@@ -136,12 +136,14 @@ function assumptionsReading(result: AnalysisResult, alpha: number): string {
   return parts.join(' ') || 'No assumption checks were run.';
 }
 
-function posthocReading(result: AnalysisResult, alpha: number): string {
-  const tk = result.tests.tukey;
-  if (!tk || !tk.length) return 'No Tukey comparisons were computed.';
-  const sig = tk.filter((c) => c.p < alpha);
-  const widest = tk.reduce((a, b) => (Math.abs(b.diff) > Math.abs(a.diff) ? b : a));
-  return `Tukey HSD over the cells: ${sig.length} of ${tk.length} pairs differ at α = ${alpha} (simultaneous ${num(100 * (1 - alpha), 3)} % intervals). The largest difference is ${widest.b} − ${widest.a} = ${num(widest.diff)} [${num(widest.lower)}, ${num(widest.upper)}], adjusted ${formatP(widest.p)}. An interval that excludes 0 marks a difference.`;
+function posthocReading(posthoc: PosthocTerm[], alpha: number): string {
+  if (!posthoc.length) return 'No term is significant, so no pairwise comparisons are shown: differences between levels are within what the scatter explains.';
+  const parts = posthoc.map((t) => {
+    const sig = t.comparisons.filter((c) => c.p < alpha);
+    const widest = t.comparisons.reduce((a, b) => (Math.abs(b.diff) > Math.abs(a.diff) ? b : a));
+    return `${t.term}: ${sig.length} of ${t.comparisons.length} pairs differ; the largest difference is ${widest.b} − ${widest.a} = ${num(widest.diff)} [${num(widest.lower)}, ${num(widest.upper)}], adjusted ${formatP(widest.p)}`;
+  });
+  return `Tukey HSD with the model's residual mean square, simultaneous ${num(100 * (1 - alpha), 3)} % intervals. ${parts.join('. ')}. An interval that excludes 0 marks a difference.`;
 }
 
 function dispersionReading(result: AnalysisResult): string {
@@ -159,13 +161,13 @@ function dispersionReading(result: AnalysisResult): string {
   return `Scatter varies most with ${top.factor}: the largest level SD is ${num(top.ratio, 3)} times the smallest (largest at ${most.label}, SD ${num(most.sd)}). See the dispersion chart and the variance tests before choosing a setting for low scatter.`;
 }
 
-export function readingsFor(result: AnalysisResult, alpha: number): Readings {
+export function readingsFor(result: AnalysisResult, alpha: number, posthoc: PosthocTerm[] = []): Readings {
   return {
     descriptives: descriptivesReading(result),
     anova: anovaReading(result, alpha),
     notes: result.notes.length ? `${result.notes.length} note${result.notes.length === 1 ? '' : 's'} from the engine about the design and the fit; read them before the numbers.` : 'The engine raised no notes about the design or the fit.',
     assumptions: assumptionsReading(result, alpha),
-    posthoc: posthocReading(result, alpha),
+    posthoc: posthocReading(posthoc, alpha),
     dispersion: dispersionReading(result),
   };
 }

@@ -18,6 +18,7 @@ import { HttpError, notFound } from '../http-error.js';
 import { analyse } from '../stats/analyse.js';
 import { by, type Actor } from './actor.js';
 import { loadAnalysisData, dataHash, diffRows, type AnalysisData } from './analysis-data.js';
+import { posthocFor } from './analysis-posthoc.js';
 import { countsSentence, readingsFor, summaryParagraph } from './analysis-summary.js';
 import { audit } from './audit.js';
 import { autoAdvance } from './studies.js';
@@ -36,8 +37,12 @@ export function completeSpec(spec: AnalysisSpecParsed): AnalysisSpec {
     ssType: spec.ssType,
     alpha: spec.alpha,
     excludeInvalid: spec.excludeInvalid,
+    posthoc: spec.posthoc,
   };
 }
+
+/** The engine's checks and alternatives; Tukey is run per significant term (analysis-posthoc.ts). */
+const ENGINE_TESTS = TEST_NAMES.filter((t) => t !== 'tukey');
 
 /** Gathers the runs, calls the engine and words the result. Writes nothing. */
 export function computeAnalysis(db: Db, studyId: number, spec: AnalysisSpec): PreviewResponse & { data: AnalysisData } {
@@ -50,17 +55,20 @@ export function computeAnalysis(db: Db, studyId: number, spec: AnalysisSpec): Pr
     terms: spec.terms,
     ssType: spec.ssType,
     alpha: spec.alpha,
-    tests: TEST_NAMES,
+    tests: ENGINE_TESTS,
     levels: data.levels,
   });
   if (spec.ssType === 3) result.notes.push(TYPE_III_CAVEAT);
+  const { posthoc, notes } = spec.posthoc ? posthocFor(result, data.rows, data.levels, spec.alpha) : { posthoc: [], notes: ['Tukey HSD not computed in this preview (posthoc: false)'] };
+  result.notes.push(...notes);
   const label = data.response.unit ? `${data.response.name} (${data.response.symbol}, ${data.response.unit})` : `${data.response.name} (${data.response.symbol})`;
   return {
     data,
     result,
+    posthoc,
     counts: data.counts,
     summary: summaryParagraph(result, data.counts, spec.alpha, label),
-    readings: readingsFor(result, spec.alpha),
+    readings: readingsFor(result, spec.alpha, posthoc),
     rowCodes: data.rows.map((r) => r.code),
     dataHash: dataHash(studyId, spec, data.rows),
   };
@@ -71,9 +79,11 @@ export function previewAnalysis(db: Db, studyId: number, spec: AnalysisSpec): Pr
   return preview;
 }
 
-export function saveAnalysis(db: Db, actor: Actor, studyId: number, spec: AnalysisSpec, title?: string): number {
+export function saveAnalysis(db: Db, actor: Actor, studyId: number, requested: AnalysisSpec, title?: string): number {
+  // A saved analysis is complete: its post-hoc comparisons are always computed and frozen with it.
+  const spec: AnalysisSpec = { ...requested, posthoc: true };
   const computed = computeAnalysis(db, studyId, spec);
-  const stored: StoredResult = { engine: computed.result, counts: computed.counts, summary: computed.summary, readings: computed.readings, rowCodes: computed.rowCodes };
+  const stored: StoredResult = { engine: computed.result, posthoc: computed.posthoc, counts: computed.counts, summary: computed.summary, readings: computed.readings, rowCodes: computed.rowCodes };
   return db.transaction((tx) => {
     const row = tx
       .insert(analyses)
@@ -186,6 +196,7 @@ export function analysisDetail(db: Db, row: AnalysisRow, fresh: Freshness, extra
   return {
     ...summaryItem(row, fresh.stale, names),
     result: stored.engine,
+    posthoc: stored.posthoc ?? [],
     counts: stored.counts,
     summary: stored.summary,
     readings: stored.readings,

@@ -1,5 +1,5 @@
 import { eq } from 'drizzle-orm';
-import type { AnalysisResult, Readings, RunCounts, SnapshotRow } from '../../shared/analysis.js';
+import type { AnalysisResult, PosthocTerm, Readings, RunCounts, SnapshotRow } from '../../shared/analysis.js';
 import type { Db } from '../db/client.js';
 import { studies, users } from '../db/schema.js';
 import { buildCharts, type ChartSpec } from '../report/charts/index.js';
@@ -36,6 +36,7 @@ export interface ReportModel {
   };
   counts: RunCounts;
   result: AnalysisResult;
+  posthoc: PosthocTerm[];
   summary: string;
   readings: Readings;
   reviewers: { name: string; role: string; requestedAt: number; requestedBy: string }[];
@@ -83,6 +84,7 @@ export function buildReportModel(db: Db, row: AnalysisRow, withCharts = true): R
     },
     counts: stored.counts,
     result: stored.engine,
+    posthoc: stored.posthoc ?? [],
     summary: stored.summary,
     readings: stored.readings,
     reviewers: listReviewRequests(db, row.id).map((r) => ({ name: r.reviewer.name, role: r.reviewer.role, requestedAt: r.createdAt, requestedBy: r.requestedBy.name })),

@@ -74,6 +74,7 @@ export interface Warpbreaks {
   twoWay: { table: { term: string; df: number; ss: number; ms: number; f: number | null; p: number | null }[]; partialEtaSquared: { term: string; value: number }[] };
   shapiroResidualsTwoWay: { W: number; p: number };
   leveneMeanCells: { f: number; p: number; df1: number; df2: number };
+  tukeyHSDTwoWay: { terms: Record<string, { comparison: string; diff: number; lwr: number; upr: number; pAdj: number }[]> };
 }
 
 /** R's warpbreaks data and results (shared/reference/r-datasets/warpbreaks.json, R 4.2.2). */
@@ -81,7 +82,7 @@ export function warpbreaks(): Warpbreaks {
   const raw = JSON.parse(readFileSync(path.resolve(process.cwd(), '../shared/reference/r-datasets/warpbreaks.json'), 'utf8')) as {
     data: { rows: [number, string, string][] };
   } & Omit<Warpbreaks, 'rows'>;
-  return { rows: raw.data.rows, twoWay: raw.twoWay, shapiroResidualsTwoWay: raw.shapiroResidualsTwoWay, leveneMeanCells: raw.leveneMeanCells };
+  return { rows: raw.data.rows, twoWay: raw.twoWay, shapiroResidualsTwoWay: raw.shapiroResidualsTwoWay, leveneMeanCells: raw.leveneMeanCells, tukeyHSDTwoWay: raw.tukeyHSDTwoWay };
 }
 
 /** warpbreaks as a study: factors W (wool A/B) and T (tension L/M/H), response breaks; all runs valid. */
@@ -109,11 +110,11 @@ export function rel(a: number, b: number): number {
  * view, report, review, sign-off — has something valid to act on.
  */
 export function insertWalkAnalysis(ctx: AppContext, studyId: number, createdBy: number, id?: number): number {
-  const spec = { response: 'H', factors: ['A', 'B'], terms: ['A', 'B', 'A:B'], ssType: 2 as const, alpha: 0.05, excludeInvalid: true };
+  const spec = { response: 'H', factors: ['A', 'B'], terms: ['A', 'B', 'A:B'], ssType: 2 as const, alpha: 0.05, excludeInvalid: true, posthoc: true };
   const rows = ['0.5', '0.8'].flatMap((a, i) => ['round', 'vee', 'flat'].flatMap((b, j) => [0, 1].map((r) => ({ factors: { A: a, B: b }, value: String(0.4 + 0.1 * i + 0.05 * j + 0.01 * r) }))));
   const engine = analyse({ rows, response: 'H', factors: ['A', 'B'], terms: spec.terms, tests: ['shapiro', 'levene'] });
   const counts = { total: 0, used: 0, removed: 0, centrePoints: 0, excludedInvalid: 0, byReason: [], invalidIncluded: 0, missingValue: 0 };
-  const stored = { engine, counts, summary: 'walk fixture', readings: readingsFor(engine, 0.05), rowCodes: rows.map((_, i) => `W${i + 1}`) };
+  const stored = { engine, posthoc: [], counts, summary: 'walk fixture', readings: readingsFor(engine, 0.05), rowCodes: rows.map((_, i) => `W${i + 1}`) };
   const row = ctx.db
     .insert(analyses)
     .values({ ...(id === undefined ? {} : { id }), studyId, title: 'Walk analysis', spec, result: stored as unknown as Record<string, unknown>, engineVersion: engine.engineVersion, dataHash: dataHash(studyId, spec, []), dataSnapshot: [], createdBy })

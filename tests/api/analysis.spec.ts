@@ -69,6 +69,30 @@ describe('POST /api/studies/:id/analyses/preview', () => {
     expect(rel(body.result.tests.levene!.f, ref.leveneMeanCells.f)).toBeLessThan(1e-9);
   });
 
+  it('compares levels of the significant terms as R\'s TukeyHSD on the two-way model does', async () => {
+    const res = await engineer.post(`/api/studies/${studyId}/analyses/preview`, spec);
+    const posthoc = (res.body as PreviewResponse).posthoc;
+    // wool is not significant at 0.05 (R: p = 0.0582), tension and wool:tension are (warpbreaks.json)
+    expect(posthoc.map((p) => p.term)).toEqual(['T', 'W:T']);
+    // R 4.2.2 TukeyHSD(aov(breaks ~ wool * tension, data = warpbreaks)) (warpbreaks.json tukeyHSDTwoWay);
+    // its intervals and adjusted p agree with SciPy to 4e-9 relative at df 48 (reference README), hence 1e-7.
+    const refTerms = ref.tukeyHSDTwoWay.terms;
+    for (const [term, rTerm] of [['T', 'tension'], ['W:T', 'wool:tension']] as const) {
+      const ours = posthoc.find((p) => p.term === term)!.comparisons;
+      const theirs = refTerms[rTerm]!;
+      expect(ours.map((c) => `${c.b}-${c.a}`)).toEqual(theirs.map((c) => c.comparison));
+      ours.forEach((c, i) => {
+        const r = theirs[i]!;
+        expect(rel(c.diff, r.diff)).toBeLessThan(1e-9);
+        expect(rel(c.lower, r.lwr)).toBeLessThan(1e-7);
+        expect(rel(c.upper, r.upr)).toBeLessThan(1e-7);
+        expect(rel(c.p, r.pAdj)).toBeLessThan(1e-7);
+      });
+    }
+    const quick = await engineer.post(`/api/studies/${studyId}/analyses/preview`, { ...spec, posthoc: false });
+    expect(quick.body.posthoc).toEqual([]);
+  });
+
   it('always returns the run counts: used, invalid by reason, missing value, removed', async () => {
     const res = await engineer.post(`/api/studies/${studyId}/analyses/preview`, spec);
     // 54 warpbreaks rows + the 4 extra fixture runs above
