@@ -10,6 +10,7 @@ import { AppConfigStore } from './core/app-config';
 import { BrandMark } from './core/brand-mark';
 import { ColorScheme, ColorSchemeChoice } from './core/color-scheme';
 import { groupBySection, navigationFor } from './core/navigation';
+import { NotificationBell } from './notifications/notification-bell';
 
 /** The app shell: top bar, role-based navigation, and the routed page. */
 @Component({
@@ -25,6 +26,7 @@ import { groupBySection, navigationFor } from './core/navigation';
     MatMenuModule,
     MatTooltipModule,
     BrandMark,
+    NotificationBell,
   ],
   templateUrl: './app.html',
   styleUrl: './app.scss',
