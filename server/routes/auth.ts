@@ -41,7 +41,9 @@ export function authRouter(ctx: AppContext, pp: passport.PassportStatic): Router
       if (err) return next(err);
       req.session.destroy((destroyErr) => {
         if (destroyErr) return next(destroyErr);
+        // The XSRF token belonged to the destroyed session: clear it so the next sign-in gets a fresh one.
         res.clearCookie('specimetry.sid');
+        res.clearCookie('XSRF-TOKEN');
         res.status(204).end();
       });
     });
