@@ -55,11 +55,6 @@ export const routes: Routes = [
         loadComponent: () => import('./notifications/notifications-page').then((m) => m.NotificationsPage),
       },
       {
-        path: 'notifications',
-        title: 'Notifications · Specimetry',
-        loadComponent: () => import('./notifications/notifications-page').then((m) => m.NotificationsPage),
-      },
-      {
         path: 'account',
         title: 'Account · Specimetry',
         loadComponent: () => import('./account/account').then((m) => m.Account),
