@@ -170,7 +170,7 @@ export class RunGrid {
   readonly columns = input.required<(ColDef<Run> | ColGroupDef<Run>)[]>();
   readonly canEdit = input(false);
   readonly cellEdit = output<CellEdit>();
-  readonly paste = output<GridPaste>();
+  readonly blockPaste = output<GridPaste>();
   readonly rowAction = output<{ kind: RowActionKind; run: Run }>();
   readonly refused = output<string>();
 
@@ -218,7 +218,7 @@ export class RunGrid {
       const id = api.getDisplayedRowAtIndex(i)?.data?.id;
       if (id !== undefined) rowIds.push(id);
     }
-    this.paste.emit({ text, target: { rowIds, colIds: columns.slice(start).map((c) => c.getColId()) } });
+    this.blockPaste.emit({ text, target: { rowIds, colIds: columns.slice(start).map((c) => c.getColId()) } });
   }
 
   /** After a paste or undo, the user sees the rows that changed. */
