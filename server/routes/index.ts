@@ -12,6 +12,8 @@ import { calcRouter } from './calc.js';
 import { analysesRouter } from './analyses.js';
 import { reviewsRouter } from './reviews.js';
 import { notificationsRouter } from './notifications.js';
+import { operationsRouter } from '../ops/operations-router.js';
+import { openapiRouter } from '../openapi/router.js';
 
 /**
  * Feature routers (studies, runs, analyses, tokens, ...) register here, each exporting
@@ -31,5 +33,7 @@ export function extraRouters(ctx: AppContext): Router[] {
     analysesRouter(ctx),
     reviewsRouter(ctx),
     notificationsRouter(ctx),
+    operationsRouter(ctx),
+    openapiRouter(ctx),
   ];
 }
