@@ -82,6 +82,7 @@ export async function addAttachment(
     const run = getRun(db, studyId, runId);
     if (run.removedAt !== null) throw conflict(`Run ${run.code} was removed; restore it before attaching files`);
     const mimeType = checkAttachmentName(upload.originalname);
+    if (upload.size === 0) throw new HttpError(400, `"${upload.originalname}" is empty (0 bytes); attach the file with its content`);
     if (!(ATTACHMENT_KINDS as readonly string[]).includes(kind)) throw new HttpError(400, `kind "${kind}" is not one of ${ATTACHMENT_KINDS.join(', ')}`, { details: [{ path: 'kind', message: 'Unknown kind' }] });
     const sha256 = await sha256File(upload.path);
     const storedName = path.join(String(studyId), `${randomUUID()}${path.extname(upload.originalname).toLowerCase()}`);

@@ -1,6 +1,7 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { HttpError } from '../http-error.js';
+import { assertSafeZip } from '../ops/zip-guard.js';
 
 /**
  * Turns an uploaded CSV or XLSX file into a header row and data rows of plain text. Cells are kept
@@ -54,6 +55,7 @@ function parseCsv(fileName: string, buf: Buffer): ParsedTable {
 
 async function parseXlsx(fileName: string, buf: Buffer): Promise<ParsedTable> {
   const wb = new ExcelJS.Workbook();
+  assertSafeZip(fileName, buf); // before the library inflates every part into memory
   try {
     await wb.xlsx.load(buf as unknown as ArrayBuffer);
   } catch {
