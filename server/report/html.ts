@@ -80,6 +80,7 @@ ${t('assumptions')}
 ${tukey.map(table).join('') || '<p>No Tukey comparisons (no significant term).</p>'}
 <p class="reading">${e(m.readings.posthoc)}</p>
 <h2>Dispersion</h2>
+${tables.filter((x) => x.id.startsWith('dispersion:')).map(table).join('')}
 <p class="reading">${e(m.readings.dispersion)}</p>
 <h2>Charts</h2>
 ${m.charts.map((c) => `<figure class="chart" id="chart-${e(c.id)}">${c.svg}<figcaption>${e(c.title)} — ${e(c.caption)}</figcaption></figure>`).join('\n')}

@@ -158,6 +158,7 @@ export function renderReportPdf(m: ReportModel): Promise<Buffer> {
   para(doc, m.readings.posthoc, { colour: '#2f4f3f' });
 
   heading(doc, 'Dispersion');
+  for (const [id, t] of tables) if (id.startsWith('dispersion:')) table(doc, t);
   para(doc, m.readings.dispersion, { colour: '#2f4f3f' });
 
   heading(doc, 'Charts');

@@ -115,8 +115,34 @@ export function assumptionTable(m: ReportModel): Table {
   return { id: 'assumptions', title: 'Assumption checks and alternatives', headers: ['Test', 'statistic', 'p'], rows, marked: rows.flatMap((r, i) => (Number(r[2]) < m.design.alpha || r[2]!.startsWith('<') ? [i] : [])) };
 }
 
+export function dispersionTables(m: ReportModel): Table[] {
+  const d = m.result.dispersion;
+  if (!d) return [];
+  const label = (k: Record<string, string>) => m.result.factors.map((f) => `${f}=${k[f]}`).join(', ');
+  const cell = new Map(d.cells.map((c) => [label(c.key), c]));
+  return [
+    {
+      id: 'dispersion:tests',
+      title: 'Which factor drives the scatter (within-cell spread by factor level)',
+      headers: ['Factor', 'Levene F', 'p', 'Brown–Forsythe F', 'p'],
+      rows: d.varianceTests.map((t) => [t.factor, n6(t.levene?.f), p3(t.levene?.p), n6(t.brownForsythe?.f), p3(t.brownForsythe?.p)]),
+      marked: d.varianceTests.flatMap((t, i) => (t.brownForsythe && t.brownForsythe.p < m.design.alpha ? [i] : [])),
+    },
+    {
+      id: 'dispersion:ranking',
+      title: `Settings ranked by ${d.rankingRule}`,
+      headers: ['Rank', 'Setting', 'n', 'mean', 'SD', 'S/N nominal (dB)', 'loss'],
+      rows: d.ranking.slice(0, 10).map((r) => {
+        const c = cell.get(label(r.key));
+        return [r.rank === null ? '–' : String(r.rank), label(r.key), String(c?.n ?? ''), n6(c?.mean), n6(c?.sd), n6(c?.signalToNoise.nominal), n6(r.loss)];
+      }),
+      note: 'An SD from a handful of runs is itself uncertain; confirm a chosen setting with new runs.',
+    },
+  ];
+}
+
 export function allTables(m: ReportModel): Table[] {
   const out = [designTable(m), countsTable(m), anovaTable(m), ...descriptiveTables(m)];
-  out.push(...tukeyTables(m), assumptionTable(m));
+  out.push(...tukeyTables(m), assumptionTable(m), ...dispersionTables(m));
   return out;
 }

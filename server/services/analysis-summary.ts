@@ -146,19 +146,27 @@ function posthocReading(posthoc: PosthocTerm[], alpha: number): string {
   return `Tukey HSD with the model's residual mean square, simultaneous ${num(100 * (1 - alpha), 3)} % intervals. ${parts.join('. ')}. An interval that excludes 0 marks a difference.`;
 }
 
-function dispersionReading(result: AnalysisResult): string {
-  const levels = Object.entries(result.descriptives.byLevel);
-  const spread = levels
-    .map(([factor, groups]) => {
-      const sds = groups.map((g) => g.sd).filter((s): s is number => s !== null && s > 0);
-      return { factor, ratio: sds.length >= 2 ? Math.max(...sds) / Math.min(...sds) : null, groups };
-    })
-    .filter((s) => s.ratio !== null)
-    .sort((a, b) => b.ratio! - a.ratio!);
-  if (!spread.length) return 'Too few runs per level to compare the scatter.';
-  const top = spread[0]!;
-  const most = top.groups.reduce((a, b) => ((b.sd ?? 0) > (a.sd ?? 0) ? b : a));
-  return `Scatter varies most with ${top.factor}: the largest level SD is ${num(top.ratio, 3)} times the smallest (largest at ${most.label}, SD ${num(most.sd)}). See the dispersion chart and the variance tests before choosing a setting for low scatter.`;
+function dispersionReading(result: AnalysisResult, alpha: number): string {
+  const d = result.dispersion;
+  if (!d) return 'No dispersion analysis was run.';
+  const tests = d.varianceTests
+    .filter((t) => t.brownForsythe !== null)
+    .sort((a, b) => a.brownForsythe!.p - b.brownForsythe!.p);
+  const parts: string[] = [];
+  if (tests.length) {
+    const top = tests[0]!;
+    const bf = top.brownForsythe!;
+    parts.push(bf.p < alpha
+      ? `${top.factor} drives the scatter: within-cell spread differs between its levels (Brown–Forsythe F(${bf.df1}, ${bf.df2}) = ${num(bf.f)}, ${formatP(bf.p)}).`
+      : `No factor clearly drives the scatter; the strongest sign is ${top.factor} (Brown–Forsythe F(${bf.df1}, ${bf.df2}) = ${num(bf.f)}, ${formatP(bf.p)}).`);
+  }
+  const best = d.ranking.filter((r) => r.rank !== null).slice(0, 3);
+  if (best.length) {
+    const label = (k: Record<string, string>) => result.factors.map((f) => `${f}=${k[f]}`).join(', ');
+    parts.push(`Best settings (ranked by ${d.rankingRule}): ${best.map((b) => `${b.rank}. ${label(b.key)}`).join('; ')}.`);
+  }
+  parts.push('An SD from a handful of runs is itself uncertain: treat the ranking as a shortlist for confirmation runs.');
+  return parts.join(' ');
 }
 
 export function readingsFor(result: AnalysisResult, alpha: number, posthoc: PosthocTerm[] = []): Readings {
@@ -168,6 +176,6 @@ export function readingsFor(result: AnalysisResult, alpha: number, posthoc: Post
     notes: result.notes.length ? `${result.notes.length} note${result.notes.length === 1 ? '' : 's'} from the engine about the design and the fit; read them before the numbers.` : 'The engine raised no notes about the design or the fit.',
     assumptions: assumptionsReading(result, alpha),
     posthoc: posthocReading(posthoc, alpha),
-    dispersion: dispersionReading(result),
+    dispersion: dispersionReading(result, alpha),
   };
 }

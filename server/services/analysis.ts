@@ -16,6 +16,7 @@ import type { Db } from '../db/client.js';
 import { analyses, studies, users } from '../db/schema.js';
 import { HttpError, notFound } from '../http-error.js';
 import { analyse } from '../stats/analyse.js';
+import type { DispersionGoal } from '../stats/dispersion.js';
 import { by, type Actor } from './actor.js';
 import { loadAnalysisData, dataHash, diffRows, type AnalysisData } from './analysis-data.js';
 import { posthocFor } from './analysis-posthoc.js';
@@ -44,6 +45,12 @@ export function completeSpec(spec: AnalysisSpecParsed): AnalysisSpec {
 /** The engine's checks and alternatives; Tukey is run per significant term (analysis-posthoc.ts). */
 const ENGINE_TESTS = TEST_NAMES.filter((t) => t !== 'tukey');
 
+/** The dispersion ranking follows the response's goal; nominal-the-best needs its target. */
+function dispersionGoal(r: AnalysisData['response']): DispersionGoal {
+  if (r.goal === 'nominal') return r.target === null ? { kind: 'scatter' } : { kind: 'nominal', target: r.target };
+  return { kind: r.goal };
+}
+
 /** Gathers the runs, calls the engine and words the result. Writes nothing. */
 export function computeAnalysis(db: Db, studyId: number, spec: AnalysisSpec): PreviewResponse & { data: AnalysisData } {
   const data = loadAnalysisData(db, studyId, spec);
@@ -57,7 +64,11 @@ export function computeAnalysis(db: Db, studyId: number, spec: AnalysisSpec): Pr
     alpha: spec.alpha,
     tests: ENGINE_TESTS,
     levels: data.levels,
+    dispersion: dispersionGoal(data.response),
   });
+  if (data.response.goal === 'nominal' && data.response.target === null) {
+    result.notes.push(`response ${data.response.symbol} is nominal-the-best but has no target: settings are ranked by scatter alone`);
+  }
   if (spec.ssType === 3) result.notes.push(TYPE_III_CAVEAT);
   const { posthoc, notes } = spec.posthoc ? posthocFor(result, data.rows, data.levels, spec.alpha) : { posthoc: [], notes: ['Tukey HSD not computed in this preview (posthoc: false)'] };
   result.notes.push(...notes);

@@ -74,6 +74,7 @@ export interface Warpbreaks {
   twoWay: { table: { term: string; df: number; ss: number; ms: number; f: number | null; p: number | null }[]; partialEtaSquared: { term: string; value: number }[] };
   shapiroResidualsTwoWay: { W: number; p: number };
   leveneMeanCells: { f: number; p: number; df1: number; df2: number };
+  cellSummary: { level: string; n: number; mean: number; sd: number; median: number }[];
   tukeyHSDTwoWay: { terms: Record<string, { comparison: string; diff: number; lwr: number; upr: number; pAdj: number }[]> };
 }
 
@@ -82,7 +83,7 @@ export function warpbreaks(): Warpbreaks {
   const raw = JSON.parse(readFileSync(path.resolve(process.cwd(), '../shared/reference/r-datasets/warpbreaks.json'), 'utf8')) as {
     data: { rows: [number, string, string][] };
   } & Omit<Warpbreaks, 'rows'>;
-  return { rows: raw.data.rows, twoWay: raw.twoWay, shapiroResidualsTwoWay: raw.shapiroResidualsTwoWay, leveneMeanCells: raw.leveneMeanCells, tukeyHSDTwoWay: raw.tukeyHSDTwoWay };
+  return { rows: raw.data.rows, twoWay: raw.twoWay, shapiroResidualsTwoWay: raw.shapiroResidualsTwoWay, leveneMeanCells: raw.leveneMeanCells, tukeyHSDTwoWay: raw.tukeyHSDTwoWay, cellSummary: raw.cellSummary };
 }
 
 /** warpbreaks as a study: factors W (wool A/B) and T (tension L/M/H), response breaks; all runs valid. */

@@ -130,6 +130,20 @@ describe('POST /api/studies/:id/analyses/preview', () => {
     expect(Object.keys(readings).sort()).toEqual(['anova', 'assumptions', 'descriptives', 'dispersion', 'notes', 'posthoc']);
   });
 
+  it('runs the dispersion analysis: cell SDs as R gives them, settings ranked by scatter', async () => {
+    const res = await engineer.post(`/api/studies/${studyId}/analyses/preview`, { ...spec, posthoc: false });
+    const d = (res.body as PreviewResponse).result.dispersion!;
+    // R 4.2.2 sd(breaks) per wool:tension cell (warpbreaks.json cellSummary)
+    for (const c of ref.cellSummary) {
+      const [w, tn] = c.level.split(':');
+      expect(rel(d.cells.find((x) => x.key['W'] === w && x.key['T'] === tn)!.sd!, c.sd)).toBeLessThan(1e-9);
+    }
+    // The fixture response has no target, so the ranking is by s² alone: smallest R cell SD is B:H (4.89).
+    expect(d.ranking[0]!.key).toEqual({ W: 'B', T: 'H' });
+    expect(res.body.result.notes.join(' ')).toContain('has no target');
+    expect(res.body.readings.dispersion).toContain('1. W=B, T=H');
+  });
+
   it('defaults to main effects plus two-factor interactions and Type II; adds the Type III caveat', async () => {
     const def = await engineer.post(`/api/studies/${studyId}/analyses/preview`, { response: 'breaks', factors: ['W', 'T'] });
     expect(def.body.result.terms).toEqual(['W', 'T', 'W:T']);
