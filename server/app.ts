@@ -7,6 +7,7 @@ import path from 'node:path';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context.js';
 import { bearerAuth } from './auth/bearer.js';
+import { tokenUseAudit } from './services/tokens.js';
 import { csrfProtection, parseCookies } from './auth/csrf.js';
 import { configurePassport } from './auth/passport.js';
 import { apiNotFound, errorHandler } from './middleware/errors.js';
@@ -77,6 +78,7 @@ export function createApp(ctx: AppContext): { app: Express; api: Router } {
   const pp = configurePassport(ctx);
   api.use(pp.initialize());
   api.use(bearerAuth(ctx));
+  api.use(tokenUseAudit(ctx));
   api.use((req, res, next) => (req.authViaToken ? next() : pp.session()(req, res, next)));
   api.use(csrfProtection);
   api.use(systemRouter(ctx));

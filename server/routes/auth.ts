@@ -8,6 +8,7 @@ import { loginLimits } from '../auth/login-limits.js';
 import { publicRoute, signedIn } from '../auth/policy.js';
 import { confirmReset, requestReset } from '../services/password-reset.js';
 import { changePassword } from '../services/users.js';
+import { sessionOnly } from '../services/tokens.js';
 import { audit } from '../services/audit.js';
 
 export function requestOrigin(req: Request): string {
@@ -65,7 +66,8 @@ export function authRouter(ctx: AppContext, pp: passport.PassportStatic): Router
     res.status(204).end();
   });
 
-  r.post('/account/password', signedIn({ scope: 'write' }), async (req, res) => {
+  // Session only: a leaked API token must not be able to take over the account.
+  r.post('/account/password', signedIn({ scope: 'write' }), sessionOnly, async (req, res) => {
     const body = changePasswordBody.parse(req.body);
     await changePassword(ctx, req.user!.id, body.currentPassword, body.newPassword);
     res.status(204).end();

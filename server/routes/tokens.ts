@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { tokenCreateBody } from '../../shared/tokens.js';
 import type { AppContext } from '../context.js';
 import { signedIn } from '../auth/policy.js';
-import { createToken, listOwnTokens, revokeToken, sessionOnly, tokenUseAudit } from '../services/tokens.js';
+import { createToken, listOwnTokens, revokeToken, sessionOnly } from '../services/tokens.js';
 
 const idParam = z.coerce.number().int().positive();
 
@@ -13,7 +13,6 @@ const idParam = z.coerce.number().int().positive();
  */
 export function tokensRouter(ctx: AppContext): Router {
   const r = Router();
-  r.use(tokenUseAudit(ctx));
 
   r.get('/tokens', signedIn(), sessionOnly, (req, res) => {
     res.json({ tokens: listOwnTokens(ctx, req.user!.id) });
