@@ -43,7 +43,7 @@ interface CardSpec {
   styles: `
     .cards {
       display: grid;
-      grid-template-columns: repeat(auto-fit, minmax(420px, 1fr));
+      grid-template-columns: repeat(auto-fit, minmax(min(100%, 420px), 1fr));
       gap: 16px;
     }
     .wide {

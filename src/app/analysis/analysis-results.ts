@@ -22,7 +22,9 @@ import { ResultPanel } from './result-panel';
   styles: `
     :host {
       display: grid;
+      grid-template-columns: minmax(0, 1fr);
       gap: 16px;
+      min-width: 0;
     }
     .summary {
       font: var(--mat-sys-body-large);

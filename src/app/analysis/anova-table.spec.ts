@@ -19,7 +19,7 @@ describe('AnovaTable', () => {
     const row = (source: string) => el.querySelector(`tr[data-source="${source}"]`) as HTMLElement;
     for (const source of ['tension', 'wool:tension']) {
       expect(row(source).classList).toContain('significant');
-      expect(row(source).querySelector('mat-icon')?.textContent?.trim()).toBe('new_releases');
+      expect(row(source).querySelector('mat-icon')?.textContent?.trim()).toBe('star');
       expect(row(source).querySelector('[data-testid=significance]')?.textContent?.trim()).toBe('Significant');
     }
     expect(row('wool').classList).not.toContain('significant');

@@ -111,6 +111,7 @@ export function residualsOption(fitted: readonly number[], residuals: readonly n
   if (fitted.length !== residuals.length) throw new RangeError(`fitted has ${fitted.length} values but residuals has ${residuals.length}`);
   const band = 2 * residualSd;
   const extent = paddedExtent([...residuals, band, -band]);
+  const xExtent = paddedExtent(fitted);
   const color = seriesColor(theme, 0);
   const points: ScatterSeriesOption = {
     type: 'scatter',
@@ -131,7 +132,7 @@ export function residualsOption(fitted: readonly number[], residuals: readonly n
     textStyle: baseText(theme),
     animationDuration: 300,
     grid: { left: 64, right: 24, top: 16, bottom: 52 },
-    xAxis: { type: 'value', name: 'fitted value', scale: true, ...valueAxisStyle(theme), nameLocation: 'middle', nameGap: 30 },
+    xAxis: { type: 'value', name: 'fitted value', min: xExtent.min, max: xExtent.max, ...valueAxisStyle(theme), nameLocation: 'middle', nameGap: 30 },
     yAxis: { type: 'value', name: 'residual', min: extent.min, max: extent.max, nameLocation: 'middle', nameGap: 48, ...valueAxisStyle(theme) },
     tooltip: {
       ...tooltipStyle(theme),
@@ -188,7 +189,7 @@ export function qqOption(residuals: readonly number[], theme: ChartTheme): Chart
     animationDuration: 300,
     grid: { left: 64, right: 24, top: 16, bottom: 52 },
     xAxis: { type: 'value', name: 'normal quantile', scale: true, ...valueAxisStyle(theme), nameLocation: 'middle', nameGap: 30 },
-    yAxis: { type: 'value', name: 'residual', scale: true, nameLocation: 'middle', nameGap: 48, ...valueAxisStyle(theme) },
+    yAxis: { type: 'value', name: 'residual', ...paddedExtent(sorted), nameLocation: 'middle', nameGap: 48, ...valueAxisStyle(theme) },
     tooltip: {
       ...tooltipStyle(theme),
       formatter: (params) => {

@@ -36,8 +36,11 @@ export function seriesOf(option: ChartOption): SeriesOption[] {
   return (Array.isArray(s) ? s : [s]) as SeriesOption[];
 }
 
-/** Lower/upper bounds that hold every value with a margin, so CI capsules never touch the frame. */
-export function paddedExtent(values: readonly (number | null)[], pad = 0.08): { min: number; max: number } {
+/**
+ * Axis bounds that hold every value with a margin, rounded out to a round step (1, 2 or 5 × 10^k), so
+ * CI capsules never touch the frame and the end labels are round numbers rather than 1.0583.
+ */
+export function paddedExtent(values: readonly (number | null)[], pad = 0.06): { min: number; max: number } {
   const finite = values.filter((v): v is number => v !== null && Number.isFinite(v));
   if (finite.length === 0) return { min: 0, max: 1 };
   let min = Math.min(...finite);
@@ -48,7 +51,14 @@ export function paddedExtent(values: readonly (number | null)[], pad = 0.08): { 
     max += half;
   }
   const margin = (max - min) * pad;
-  return { min: Number((min - margin).toPrecision(6)), max: Number((max + margin).toPrecision(6)) };
+  min -= margin;
+  max += margin;
+  const raw = (max - min) / 5;
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const ratio = raw / mag;
+  const step = mag * (ratio < 1.5 ? 1 : ratio < 3 ? 2 : ratio < 7 ? 5 : 10);
+  const round = (v: number) => Number(v.toPrecision(12));
+  return { min: round(Math.floor(min / step) * step), max: round(Math.ceil(max / step) * step) };
 }
 
 export function baseText(theme: ChartTheme) {
@@ -99,7 +109,7 @@ export function legendStyle(theme: ChartTheme): LegendComponentOption {
  * an error bar with caps: the interval reads as a region the mean may lie in, not as a hard limit.
  * Data per item: [x, lower, upper]; x may be a category index or a value.
  */
-export function ciCapsule(color: string, width = 10): CustomSeriesOption['renderItem'] {
+export function ciCapsule(color: string, width = 10, opacity = 0.26): CustomSeriesOption['renderItem'] {
   return (_params: CustomSeriesRenderItemParams, api: CustomSeriesRenderItemAPI): CustomSeriesRenderItemReturn => {
     const x = Number(api.value(0));
     const top = api.coord([x, Number(api.value(2))]);
@@ -108,7 +118,7 @@ export function ciCapsule(color: string, width = 10): CustomSeriesOption['render
     return {
       type: 'rect',
       shape: { x: top[0] - width / 2, y: top[1], width, height, r: width / 2 },
-      style: { fill: color, opacity: 0.26, stroke: color, lineWidth: 1 },
+      style: { fill: color, opacity, stroke: color, lineWidth: 1 },
     };
   };
 }

@@ -41,6 +41,15 @@ describe('interactionOption', () => {
     expect(new Set(ls.map((l) => l.symbol)).size).toBe(2);
   });
 
+  it('labels the axis at the level positions only, and lists only the lines in the legend', () => {
+    const option = interactionOption(wb, 'breaks', light);
+    const axis = option.xAxis as { axisLabel: { customValues: number[]; formatter: (v: number) => string } };
+    expect(axis.axisLabel.customValues).toEqual([0, 1, 2]);
+    expect(axis.axisLabel.customValues.map((v) => axis.axisLabel.formatter(v))).toEqual(['L', 'M', 'H']);
+    const legend = option.legend as { data: string[] };
+    expect(legend.data).toEqual(['Wool = A', 'Wool = B']);
+  });
+
   it('mirrors the roles: three lines (tension) of two points (wool)', () => {
     const ls = lines(interactionOption(mirrored(wb), 'breaks', light));
     expect(ls.map((l) => l.id)).toEqual(['line:L', 'line:M', 'line:H']);

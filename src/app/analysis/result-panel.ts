@@ -19,6 +19,7 @@ import { MatIconModule } from '@angular/material/icon';
   styles: `
     :host {
       display: block;
+      min-width: 0;
     }
     section {
       padding: 18px 20px;

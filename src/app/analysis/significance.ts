@@ -27,7 +27,7 @@ export function markSignificance(p: number | null | undefined, alpha: number): S
   if (p < alpha) {
     return {
       significant: true,
-      icon: 'new_releases',
+      icon: 'star',
       label: 'Significant',
       description: `p = ${formatP(p)} is below α = ${alpha}: this term's effect is unlikely to be noise alone.`,
     };
