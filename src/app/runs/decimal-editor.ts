@@ -1,4 +1,4 @@
-import { AfterViewInit, ChangeDetectionStrategy, Component, ElementRef, signal, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, signal, viewChild } from '@angular/core';
 import type { ICellEditorAngularComp } from 'ag-grid-angular';
 import type { ICellEditorParams } from 'ag-grid-community';
 import type { Run } from '../studies/study-types';
@@ -25,7 +25,6 @@ export interface DecimalEditorParams {
       class="box"
       inputmode="decimal"
       autocomplete="off"
-      [value]="text()"
       (input)="typed($event)"
       [attr.aria-label]="label()"
       [attr.aria-invalid]="problem() !== null"
@@ -53,12 +52,13 @@ export interface DecimalEditorParams {
     }
   `,
 })
-export class DecimalEditor implements ICellEditorAngularComp, AfterViewInit {
+export class DecimalEditor implements ICellEditorAngularComp {
   private readonly box = viewChild.required<ElementRef<HTMLInputElement>>('box');
   protected readonly text = signal('');
   protected readonly label = signal('');
   protected readonly hint = signal('');
   private decimals: number | undefined;
+  private startedByKey = false;
   private context: GridContext | null = null;
   protected readonly problem = signal<string | null>(null);
 
@@ -68,15 +68,25 @@ export class DecimalEditor implements ICellEditorAngularComp, AfterViewInit {
     this.label.set(`${params.label} for run ${params.data?.code ?? ''}`);
     this.hint.set(params.decimals === undefined ? 'A number, point as decimal mark' : `A number with at most ${params.decimals} decimals`);
     // Typing a character on a focused cell starts the edit with that character, as in a spreadsheet.
-    const start = params.eventKey && params.eventKey.length === 1 ? params.eventKey : (params.value ?? '');
+    const key = params.eventKey;
+    this.startedByKey = typeof key === 'string' && key.length === 1;
+    const start = typeof key === 'string' && key.length === 1 ? key : (params.value ?? '');
     this.text.set(start);
     this.problem.set(decimalProblem(start.trim(), this.decimals));
   }
 
-  ngAfterViewInit(): void {
+  /**
+   * ag-grid calls this once the editor is in the page; focusing earlier (before attachment) silently
+   * fails and the keys typed right after the first one would be lost. The value is set here, not by a
+   * template binding, so a late change detection cannot overwrite what is being typed.
+   */
+  afterGuiAttached(): void {
     const el = this.box().nativeElement;
+    el.value = this.text();
     el.focus();
-    if (el.value.length > 1) el.select();
+    // Opened by typing: keep typing after that first character. Opened by Enter/F2/double-click: replace all.
+    if (this.startedByKey) el.setSelectionRange(el.value.length, el.value.length);
+    else el.select();
   }
 
   protected typed(e: Event): void {

@@ -42,24 +42,24 @@ export function runColumns(factors: Factor[], responses: Response[], outcomes: O
   const editClass = canEdit ? ['sm-cell-editable'] : [];
   const outcomeLabel = (id: number | null) => outcomes.find((o) => o.id === id)?.label ?? '';
 
+  const code: ColDef<Run> = {
+    colId: 'code',
+    headerName: 'Run',
+    field: 'code',
+    pinned: 'left',
+    width: 104,
+    filter: 'agTextColumnFilter',
+    cellClassRules: { 'sm-excluded-mark': (p) => !!p.data?.excluded },
+    tooltipValueGetter: (p) =>
+      p.data?.removedAt !== null && p.data?.removedAt !== undefined
+        ? `Removed: ${p.data.removedReason ?? ''}`
+        : p.data?.excluded
+          ? `Excluded from the analysis: ${outcomeLabel(p.data.outcomeId)}${p.data.outcomeReason ? ' — ' + p.data.outcomeReason : ''}`
+          : null,
+  };
   const runCols: ColDef<Run>[] = [
-    {
-      colId: 'code',
-      headerName: 'Run',
-      field: 'code',
-      pinned: 'left',
-      width: 104,
-      filter: 'agTextColumnFilter',
-      cellClassRules: { 'sm-excluded-mark': (p) => !!p.data?.excluded },
-      tooltipValueGetter: (p) =>
-        p.data?.removedAt !== null && p.data?.removedAt !== undefined
-          ? `Removed: ${p.data.removedReason ?? ''}`
-          : p.data?.excluded
-            ? `Excluded from the analysis: ${outcomeLabel(p.data.outcomeId)}${p.data.outcomeReason ? ' — ' + p.data.outcomeReason : ''}`
-            : null,
-    },
-    { colId: 'standardOrder', headerName: 'Std order', field: 'standardOrder', width: 100, filter: 'agNumberColumnFilter', cellClass: 'sm-cell-number' },
-    { colId: 'runOrder', headerName: 'Run order', field: 'runOrder', width: 100, filter: 'agNumberColumnFilter', cellClass: 'sm-cell-number', sort: 'asc' },
+    { colId: 'standardOrder', headerName: 'Std order', field: 'standardOrder', width: 120, filter: 'agNumberColumnFilter', cellClass: 'sm-cell-number' },
+    { colId: 'runOrder', headerName: 'Run order', field: 'runOrder', width: 124, filter: 'agNumberColumnFilter', cellClass: 'sm-cell-number', sort: 'asc' },
     { colId: 'block', headerName: 'Block', field: 'block', width: 90, filter: 'agTextColumnFilter' },
   ];
 
@@ -119,22 +119,27 @@ export function runColumns(factors: Factor[], responses: Response[], outcomes: O
     { colId: 'operator', headerName: 'Operator', field: 'operator', width: 120, editable, filter: 'agTextColumnFilter', cellClass: editClass },
     { colId: 'testedOn', headerName: 'Tested on', field: 'testedOn', width: 130, editable, cellEditor: 'agDateStringCellEditor', filter: 'agTextColumnFilter', cellClass: editClass },
     { colId: 'notes', headerName: 'Notes', field: 'notes', width: 220, editable, filter: 'agTextColumnFilter', cellClass: editClass, tooltipField: 'notes' },
-    {
-      colId: 'attachments',
-      headerName: 'Files',
-      valueGetter: (p) => p.data?.attachmentCount ?? 0,
-      width: canEdit ? 150 : 120,
-      filter: 'agNumberColumnFilter',
-      cellRenderer: RowActions,
-      sortable: true,
-    },
   ];
 
+  const files: ColDef<Run> = {
+    colId: 'attachments',
+    headerName: 'Files',
+    valueGetter: (p) => p.data?.attachmentCount ?? 0,
+    width: canEdit ? 130 : 100,
+    // Kept in view: the files, history and removal of a run are reachable however wide the sheet is.
+    pinned: 'right',
+    filter: 'agNumberColumnFilter',
+    cellRenderer: RowActions,
+    sortable: true,
+  };
+
   return [
-    { headerName: 'Run', children: runCols },
+    code,
+    { headerName: 'Order', children: runCols },
     ...(settings.length ? [{ headerName: 'Planned settings', children: settings }] : []),
     ...(measured.length ? [{ headerName: 'Measured geometry', children: measured }] : []),
     ...(values.length ? [{ headerName: 'Responses', children: values }] : []),
     { headerName: 'Record', children: record },
+    files,
   ];
 }

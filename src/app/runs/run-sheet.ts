@@ -75,6 +75,13 @@ export class RunSheetPage {
     this.runs.update((rows) => rows.map((r) => next.get(r.id) ?? r));
   }
 
+  /** The study header shows progress and status (the first value moves planned to collecting). */
+  private refreshHeader(): void {
+    const s = this.store.study();
+    const c = this.counts();
+    if (!s || s.status === 'planned' || s.progress.recorded !== c.recorded || s.progress.invalid !== c.invalid) this.store.reload();
+  }
+
   protected refused(message: string): void {
     this.notifier.error(message);
   }
@@ -98,7 +105,7 @@ export class RunSheetPage {
       next: (res) => {
         this.replace([res.run]);
         if (res.warnings.length) this.notifier.info(res.warnings.join(' '));
-        if (this.store.study()?.status === 'planned') this.store.reload();
+        this.refreshHeader();
       },
       error: (err: unknown) => {
         if (err instanceof ApiError && err.status === 409) this.resolveConflict(id, edit, e);
@@ -139,7 +146,7 @@ export class RunSheetPage {
         this.replace(res.runs);
         this.lastPaste.set({ message: `Pasted ${plan.cellCount} cells into ${plan.edits.length} runs.`, undo: res.undo.edits });
         this.grid()?.flash(res.runs.map((r) => r.id), p.target.colIds.slice(0, Math.max(...block.map((b) => b.length))));
-        if (this.store.study()?.status === 'planned') this.store.reload();
+        this.refreshHeader();
       },
       error: (err: unknown) => {
         this.busy.set(false);
@@ -162,6 +169,7 @@ export class RunSheetPage {
         this.busy.set(false);
         this.replace(res.runs);
         this.lastPaste.set({ message: 'The paste was undone; the previous values are back.', undo: null });
+        this.refreshHeader();
       },
       error: (err: unknown) => {
         this.busy.set(false);

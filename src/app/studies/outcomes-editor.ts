@@ -30,7 +30,7 @@ import { StudyStore } from './study-store';
         <div formArrayName="outcomes">
           @for (o of list.controls; track o; let i = $index) {
             <div class="outcome" [formGroupName]="i">
-              <mat-form-field appearance="outline" class="grow">
+              <mat-form-field appearance="outline" subscriptSizing="dynamic" class="grow">
                 <mat-label>Outcome {{ i + 1 }}</mat-label>
                 <input matInput formControlName="label" />
                 <mat-error>{{ err(o.controls.label, 'an outcome label') }}</mat-error>

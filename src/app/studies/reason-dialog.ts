@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -23,7 +23,7 @@ export interface ReasonDialogData {
   imports: [ReactiveFormsModule, MatDialogModule, MatButtonModule, MatFormFieldModule, MatInputModule],
   template: `
     <h2 mat-dialog-title>{{ data.title }}</h2>
-    <form (ngSubmit)="confirm()">
+    <form [formGroup]="form" (ngSubmit)="confirm()">
       <mat-dialog-content>
         <p>{{ data.message }}</p>
         <mat-form-field appearance="outline" class="sm-full-width">
@@ -53,6 +53,8 @@ export class ReasonDialog {
     nonNullable: true,
     validators: this.data.required ? [Validators.required, (c) => (c.value.trim().length < 3 ? { short: true } : null)] : [],
   });
+  // A [formGroup] gives the <form> Angular's submit handling (without one the browser would submit the page).
+  protected readonly form = new FormGroup({ reason: this.reason });
 
   protected confirm(): void {
     this.reason.markAsTouched();

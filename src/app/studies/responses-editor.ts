@@ -41,22 +41,22 @@ export const GOAL_LABELS: Record<ResponseGoal, string> = {
             <fieldset class="item" [formGroupName]="i" [attr.data-response]="i">
               <legend>Response {{ i + 1 }}</legend>
               <div class="row">
-                <mat-form-field appearance="outline" class="grow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="grow">
                   <mat-label>Name</mat-label>
                   <input matInput formControlName="name" placeholder="e.g. Anisotropy parameter H" />
                   <mat-error>{{ err(r.controls.name, 'a response name') }}</mat-error>
                 </mat-form-field>
-                <mat-form-field appearance="outline" class="narrow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                   <mat-label>Symbol</mat-label>
                   <input matInput formControlName="symbol" placeholder="e.g. H" />
                   <mat-error>{{ err(r.controls.symbol, 'a symbol') }}</mat-error>
                 </mat-form-field>
-                <mat-form-field appearance="outline" class="narrow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                   <mat-label>Unit</mat-label>
                   <input matInput formControlName="unit" />
                   <mat-error>{{ err(r.controls.unit, 'a unit') }}</mat-error>
                 </mat-form-field>
-                <mat-form-field appearance="outline" class="narrow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                   <mat-label>Decimals</mat-label>
                   <input matInput type="number" min="0" max="10" formControlName="decimals" />
                   <mat-error>{{ err(r.controls.decimals, 'the number of decimals') }}</mat-error>
@@ -66,7 +66,7 @@ export const GOAL_LABELS: Record<ResponseGoal, string> = {
                 }
               </div>
               <div class="row">
-                <mat-form-field appearance="outline" class="grow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="grow">
                   <mat-label>Goal</mat-label>
                   <mat-select formControlName="goal">
                     @for (g of goals; track g) {
@@ -75,18 +75,18 @@ export const GOAL_LABELS: Record<ResponseGoal, string> = {
                   </mat-select>
                 </mat-form-field>
                 @if (r.controls.goal.value === 'nominal') {
-                  <mat-form-field appearance="outline" class="narrow">
+                  <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                     <mat-label>Target</mat-label>
                     <input matInput formControlName="target" inputmode="decimal" />
                     <mat-error>{{ err(r.controls.target, 'a target') }}</mat-error>
                   </mat-form-field>
                 }
-                <mat-form-field appearance="outline" class="narrow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                   <mat-label>Plausible from</mat-label>
                   <input matInput formControlName="rangeMin" inputmode="decimal" />
                   <mat-error>{{ err(r.controls.rangeMin, 'a lower bound') }}</mat-error>
                 </mat-form-field>
-                <mat-form-field appearance="outline" class="narrow">
+                <mat-form-field appearance="outline" subscriptSizing="dynamic" class="narrow">
                   <mat-label>Plausible to</mat-label>
                   <input matInput formControlName="rangeMax" inputmode="decimal" />
                   <mat-error>{{ err(r.controls.rangeMax, 'an upper bound') }}</mat-error>

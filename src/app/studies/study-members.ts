@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -40,7 +40,7 @@ const ROLE_HELP: Record<StudyRole, string> = {
       }
     </ul>
     @if (store.canManageMembers()) {
-      <form class="add" (ngSubmit)="add()">
+      <form class="add" [formGroup]="form" (ngSubmit)="add()">
         <mat-form-field appearance="outline">
           <mat-label>Person</mat-label>
           <mat-select [formControl]="userId" name="member">
@@ -114,6 +114,7 @@ export class StudyMembers {
   protected readonly candidates = computed(() => (this.candidatesRes.hasValue() ? this.candidatesRes.value() : []));
   protected readonly userId = new FormControl(0, { nonNullable: true, validators: [Validators.min(1)] });
   protected readonly role = new FormControl<StudyRole>('viewer', { nonNullable: true });
+  protected readonly form = new FormGroup({ userId: this.userId, role: this.role });
 
   protected add(): void {
     const id = this.store.id();

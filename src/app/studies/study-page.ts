@@ -87,8 +87,13 @@ const TABS = [
       gap: 4px;
       align-items: center;
     }
+    /* Eight steps have to fit one row at laptop width; Material's default 24px side padding pushes them into paging. */
+    a[mat-tab-link] {
+      padding: 0 12px;
+      min-width: 0;
+    }
     .tab-icon {
-      margin-right: 6px;
+      margin-right: 4px;
       font-size: 20px;
       width: 20px;
       height: 20px;
