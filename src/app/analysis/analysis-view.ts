@@ -10,6 +10,7 @@ import { RecommendationForm } from '../review/recommendation-form';
 import { ReviewApi } from '../review/review-api';
 import { type ReviewerChoice, ReviewRequest } from '../review/review-request';
 import { SignOff } from '../review/sign-off';
+import { StudyStore } from '../studies/study-store';
 import { routeStudyId } from './study-route';
 import { AnalysisApi } from './analysis-api';
 import { factorNames, responseLabel } from './analysis-labels';
@@ -34,6 +35,8 @@ export class AnalysisView {
   private readonly api = inject(AnalysisApi);
   private readonly reviewApi = inject(ReviewApi);
   private readonly notifier = inject(Notifier);
+  /** The study page around this tab: its header shows the study status, which review and sign-off change. */
+  private readonly studyStore = inject(StudyStore, { optional: true });
   /** route parameter :aid (the study's :id belongs to the parent route) */
   readonly aid = input.required<string>();
   protected readonly studyId = routeStudyId();
@@ -82,10 +85,12 @@ export class AnalysisView {
   protected reviewRequested(mailed: number): void {
     this.notifier.info(`Review requested; ${mailed} e-mail${mailed === 1 ? '' : 's'} sent.`);
     this.analysis.reload();
+    this.studyStore?.reload();
   }
 
   protected signed(a: AnalysisDetail): void {
     this.analysis.set(a);
+    this.studyStore?.reload();
     this.notifier.info(a.status === 'approved' ? 'Analysis approved and frozen.' : 'Analysis returned to its author.');
   }
 

@@ -11,6 +11,7 @@ import type { AnalysisSpecInput, PreviewResponse, StoredResult } from '../../../
 import { ApiError } from '../core/api-error';
 import { Notifier } from '../core/notifier';
 import { routeStudyId } from './study-route';
+import { StudyStore } from '../studies/study-store';
 import { AnalysisApi } from './analysis-api';
 import { factorNames, maySave, responseLabel } from './analysis-labels';
 import { AnalysisResults } from './analysis-results';
@@ -29,6 +30,8 @@ export class AnalysisWorkspace {
   private readonly api = inject(AnalysisApi);
   private readonly router = inject(Router);
   private readonly notifier = inject(Notifier);
+  /** Saving moves a collecting study to analysed; the study header above this tab shows that. */
+  private readonly studyStore = inject(StudyStore, { optional: true });
   protected readonly studyId = routeStudyId();
 
   protected readonly study = rxResource({ params: () => this.studyId(), stream: ({ params }) => this.api.study(params) });
@@ -73,6 +76,7 @@ export class AnalysisWorkspace {
     this.api.save(this.studyId(), { ...spec, ...(title ? { title } : {}) }).subscribe({
       next: (a) => {
         this.notifier.info(`Saved “${a.title}”.`);
+        this.studyStore?.reload();
         void this.router.navigate(['/studies', a.studyId, 'analyses', a.id]);
       },
       // The interceptor has shown the failure; the button becomes usable again.

@@ -31,9 +31,11 @@ describe('AnovaTable', () => {
     const el = await render(0.05);
     const cells = Array.from((el.querySelector('tr[data-source="tension"]') as HTMLElement).querySelectorAll('td')).map((td) => td.textContent?.trim());
     // df 2, SS 2034, MS 1017, F 8.498, p 0.000693 (R 4.2.2, warpbreaks.json twoWay.table, 4 significant digits)
-    expect(cells.slice(0, 5)).toEqual(['2', '2034', '1017', '8.498', '0.000693']);
+    expect(cells.slice(0, 4)).toEqual(['2', '2034', '1017', '8.498']);
+    expect(cells[4]).toMatch(/^star\s*0\.000693\s*Significant$/);
     const residual = Array.from((el.querySelector('tr[data-source="Residual"]') as HTMLElement).querySelectorAll('td')).map((td) => td.textContent?.trim());
     expect(residual.slice(3, 5)).toEqual(['', '']);
+    expect(residual.join('')).not.toContain('ignificant');
   });
 
   it('offers a comment button on every effect row but not on the residual row', async () => {

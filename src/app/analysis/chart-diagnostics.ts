@@ -36,7 +36,7 @@ export function boxStats(values: readonly number[]): { box: [number, number, num
 }
 
 /**
- * Box plots per level, one panel per factor, with every run drawn beside its box as a small dot: with
+ * Box plots per level, one panel per factor, with every run drawn over its box as a small dot: with
  * the handful of runs per level typical of a lab study, the dots say more than the box does.
  */
 export function boxPlotOption(factors: readonly FactorSpread[], responseLabel: string, theme: ChartTheme): ChartOption {
@@ -77,8 +77,7 @@ export function boxPlotOption(factors: readonly FactorSpread[], responseLabel: s
         xAxisIndex: i,
         yAxisIndex: i,
         symbolSize: 6,
-        // A fixed sideways offset by run order (not random) keeps the picture the same on every render.
-        data: f.levels.flatMap((l, j) => l.values.map((v, r) => [j + 0.3 + ((r % 5) - 2) * 0.025, v])),
+        data: f.levels.flatMap((l, j) => l.values.map((v) => [j, v])),
         itemStyle: { color: dot, opacity: 0.85, borderColor: theme.halo, borderWidth: 0.5 },
       },
     ];
