@@ -14,7 +14,7 @@ import type { DataChanges } from '../../../shared/analysis';
     <section class="stale" role="alert" data-testid="stale-banner">
       <h2><mat-icon>sync_problem</mat-icon>STALE — the data changed since this analysis was saved</h2>
       <p>
-        These results describe the runs as they were. {{ approved() ? 'It was approved on the old data and cannot be approved again:' : '' }}
+        These results describe the runs as they were. {{ approved() ? 'It was approved on the old data and cannot be approved again.' : '' }}
         Save a new analysis from the workspace to analyse today's data.
       </p>
       @if (changes(); as c) {
