@@ -1,8 +1,8 @@
 /**
  * Upper-tail probabilities and quantiles of the F, t, chi-square and normal distributions.
  *
- * Every tail is computed directly from the regularised incomplete beta / gamma function
- * (special-functions.ts), never as 1 - cdf, so that a p-value of 1e-20 is reported as 1e-20 and
+ * Every tail is computed directly, from the regularised incomplete beta / gamma function
+ * (special-functions.ts) or, for the normal, Cody's rational approximations, never as 1 - cdf, so that a p-value of 1e-20 is reported as 1e-20 and
  * not as 0. Quantiles start from jstat's inverse and are polished by safeguarded Newton steps on
  * these accurate tails (jstat's own inverses inherit its 3e-7 continued-fraction tolerance).
  */
@@ -70,15 +70,95 @@ export function chiSquareUpperTail(x: number, df: number): number {
   return incompleteGamma(df / 2, x / 2).upper;
 }
 
+// W. J. Cody's near-minimax rational approximations for the normal distribution function
+// (derived in Cody, "Rational Chebyshev approximations for the error function", Math. Comp. 23,
+// 1969, 631-637; coefficients as published in the ANORM routine of SPECFUN, ACM TOMS Algorithm
+// 715, 1993, designed for 18 significant digits). About 25 ns a call against 0.4 µs for the
+// incomplete-gamma route; the studentized range integrals call it ~10^5 times per p-value.
+const CODY_A = [2.2352520354606839287e0, 1.6102823106855587881e2, 1.0676894854603709582e3, 1.8154981253343561249e4, 6.5682337918207449113e-2];
+const CODY_B = [4.7202581904688241870e1, 9.7609855173777669322e2, 1.0260932208618978205e4, 4.5507789335026729956e4];
+const CODY_C = [
+  3.9894151208813466764e-1, 8.8831497943883759412e0, 9.3506656132177855979e1, 5.9727027639480026226e2,
+  2.4945375852903726711e3, 6.8481904505362823326e3, 1.1602651437647350124e4, 9.8427148383839780218e3,
+  1.0765576773720192317e-8,
+];
+const CODY_D = [
+  2.2266688044328115691e1, 2.3538790178262499861e2, 1.5193775994075548050e3, 6.4855582982667607550e3,
+  1.8615571640885098091e4, 3.4900952721145977266e4, 3.8912003286093271411e4, 1.9685429676859990727e4,
+];
+const CODY_P = [2.1589853405795699e-1, 1.274011611602473639e-1, 2.2235277870649807e-2, 1.421619193227893466e-3, 2.9112874951168792e-5, 2.307344176494017303e-2];
+const CODY_Q = [1.28426009614491121e0, 4.68238212480865118e-1, 6.59881378689285515e-2, 3.78239633202758244e-3, 7.29751555083966205e-5];
+const INV_SQRT_2PI = 3.9894228040143267794e-1;
+const CODY_SPLIT_LOW = 0.66291;
+const CODY_SPLIT_HIGH = 5.656854248; // sqrt(32), as in ANORM
+const EXP_MINUS_64 = Math.exp(-64);
+const DEKKER_SPLIT = 134217729; // 2^27 + 1: splits a double into two 26-bit halves
+
 /**
- * P(Z > z) for the standard normal, as Q(1/2, z^2/2) / 2 for z >= 0 (erfc without cancellation).
+ * exp(-y²/2) · times without the rounding error of y² in the exponent (which would cost y²ε/2
+ * relative, 1e-13 at y = 37): y² = p + e exactly by Dekker's two-product (1971), and since |e| <
+ * 1e-13, exp(-(p + e)/2) = exp(-p/2) (1 - e/2) to 1e-27. This does the job of Cody's split
+ * y = u + (y - u), u a multiple of 1/16, with one exp instead of two. Past y = 37 the factor
+ * leaves the normal double range; it is then formed scaled by e^64 so that the final product rounds
+ * once into the subnormals instead of losing digits at every step.
+ */
+function gaussFactor(y: number, times: number): number {
+  const c = DEKKER_SPLIT * y;
+  const hi = c - (c - y);
+  const lo = y - hi;
+  const p = y * y;
+  const e = hi * hi - p + 2 * hi * lo + lo * lo;
+  const correction = (1 - 0.5 * e) * times;
+  if (y <= 37) return Math.exp(-0.5 * p) * correction;
+  return Math.exp(64 - 0.5 * p) * correction * EXP_MINUS_64;
+}
+
+/** Q(y) = P(Z > y) for y > 0.66291 by Cody's two outer approximations (the tail, computed directly). */
+function codyTail(y: number): number {
+  if (y > 40) return 0; // Q(40) ≈ 3.7e-350 is below the smallest double
+  if (y <= CODY_SPLIT_HIGH) {
+    let num = CODY_C[8] * y;
+    let den = y;
+    for (let i = 0; i < 7; i++) {
+      num = (num + CODY_C[i]) * y;
+      den = (den + CODY_D[i]) * y;
+    }
+    return gaussFactor(y, (num + CODY_C[7]) / (den + CODY_D[7]));
+  }
+  const w = 1 / (y * y);
+  let num = CODY_P[5] * w;
+  let den = w;
+  for (let i = 0; i < 4; i++) {
+    num = (num + CODY_P[i]) * w;
+    den = (den + CODY_Q[i]) * w;
+  }
+  const r = (w * (num + CODY_P[4])) / (den + CODY_Q[4]);
+  return gaussFactor(y, (INV_SQRT_2PI - r) / y);
+}
+
+/**
+ * P(Z > z) for the standard normal by Cody's rational approximations: near 0 as 1/2 - z R(z²), beyond
+ * as exp(-z²/2) R(|z|) directly (no 1 - Φ), so Q(10) = 7.6e-24 keeps all its digits. Validated in
+ * the spec against the incomplete-gamma form Q(1/2, z²/2)/2 to 1e-14 relative over [-8, 38].
+ * @param z any number (NaN gives NaN, ±Infinity gives 0 / 1)
+ * @returns the upper-tail probability
  * @example normalUpperTail(1.959963984540054) // 0.025
  */
 export function normalUpperTail(z: number): number {
   if (Number.isNaN(z)) return NaN;
-  if (z === 0) return 0.5;
-  const half = incompleteGamma(0.5, (z * z) / 2).upper / 2;
-  return z > 0 ? half : 1 - half;
+  const y = Math.abs(z);
+  if (y <= CODY_SPLIT_LOW) {
+    const zsq = y > 1.1e-16 ? z * z : 0;
+    let num = CODY_A[4] * zsq;
+    let den = zsq;
+    for (let i = 0; i < 3; i++) {
+      num = (num + CODY_A[i]) * zsq;
+      den = (den + CODY_B[i]) * zsq;
+    }
+    return 0.5 - (z * (num + CODY_A[3])) / (den + CODY_B[3]);
+  }
+  const tail = codyTail(y);
+  return z > 0 ? tail : 1 - tail;
 }
 
 /** Density of Student's t (for Newton steps). */
