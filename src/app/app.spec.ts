@@ -35,7 +35,7 @@ describe('App shell navigation', () => {
 
   it('shows an administrator the admin section, including the outbox while mail is faked', async () => {
     const el = await render('admin', true);
-    expect(navTargets(el)).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account']);
+    expect(navTargets(el)).toEqual(['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account', '/tokens', '/api-docs']);
     expect(el.textContent).toContain('Administration');
     expect(el.querySelector('[data-testid=signed-in-role]')?.textContent?.trim()).toBe('Administrator');
   });
@@ -46,7 +46,7 @@ describe('App shell navigation', () => {
     ['supervisor', 'Supervisor'],
   ] as const)('shows %s only studies, the calculator and account, with name and role in the top bar', async (role, label) => {
     const el = await render(role, true);
-    expect(navTargets(el)).toEqual(['/studies', '/calc/hill48', '/account']);
+    expect(navTargets(el)).toEqual(['/studies', '/calc/hill48', '/account', '/tokens', '/api-docs']);
     expect(el.textContent).not.toContain('Administration');
     expect(el.querySelector('[data-testid=signed-in-user]')?.textContent).toContain('Rita Role');
     expect(el.querySelector('[data-testid=signed-in-role]')?.textContent?.trim()).toBe(label);

@@ -2,12 +2,13 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { type Browser, DEMO_PASSWORD, launchBrowser, navTargets, screenshot, signIn, signOut } from './browser';
 
 // Expected navigation per role: issue 2 (foundation) — studies and account for every role, the admin
-// pages (users, invitations, and the mail outbox while the built-in fake SMTP runs) for admin only.
+// pages (users, invitations, and the mail outbox while the built-in fake SMTP runs) for admin only;
+// the Hill calculator (issue 7) and API tokens / reference (issue 6) for every signed-in role.
 const EXPECTED: Record<string, { label: string; nav: string[] }> = {
-  admin: { label: 'Administrator', nav: ['/studies', '/admin/users', '/admin/invitations', '/admin/outbox', '/account'] },
-  engineer: { label: 'Research engineer', nav: ['/studies', '/account'] },
-  statistician: { label: 'Statistician', nav: ['/studies', '/account'] },
-  supervisor: { label: 'Supervisor', nav: ['/studies', '/account'] },
+  admin: { label: 'Administrator', nav: ['/studies', '/calc/hill48', '/admin/users', '/admin/invitations', '/admin/outbox', '/account', '/tokens', '/api-docs'] },
+  engineer: { label: 'Research engineer', nav: ['/studies', '/calc/hill48', '/account', '/tokens', '/api-docs'] },
+  statistician: { label: 'Statistician', nav: ['/studies', '/calc/hill48', '/account', '/tokens', '/api-docs'] },
+  supervisor: { label: 'Supervisor', nav: ['/studies', '/calc/hill48', '/account', '/tokens', '/api-docs'] },
 };
 
 describe('signing in as each demo role', () => {
