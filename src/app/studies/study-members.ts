@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -40,7 +40,7 @@ const ROLE_HELP: Record<StudyRole, string> = {
       }
     </ul>
     @if (store.canManageMembers()) {
-      <form class="add" [formGroup]="form" (ngSubmit)="add()">
+      <form class="add" [formGroup]="form" #f="ngForm" (ngSubmit)="add(f)">
         <mat-form-field appearance="outline">
           <mat-label>Person</mat-label>
           <mat-select [formControl]="userId" name="member">
@@ -55,6 +55,7 @@ const ROLE_HELP: Record<StudyRole, string> = {
         <mat-form-field appearance="outline">
           <mat-label>Study role</mat-label>
           <mat-select [formControl]="role" name="memberRole">
+            <mat-select-trigger>{{ role.value }}</mat-select-trigger>
             @for (r of roles; track r) {
               <mat-option [value]="r">{{ r }} — {{ help[r] }}</mat-option>
             }
@@ -73,6 +74,9 @@ const ROLE_HELP: Record<StudyRole, string> = {
       list-style: none;
       padding: 0;
       margin: 0 0 12px;
+      li > mat-icon {
+        flex: none;
+      }
       li {
         display: flex;
         gap: 12px;
@@ -83,6 +87,8 @@ const ROLE_HELP: Record<StudyRole, string> = {
     }
     .who {
       flex: 1;
+      min-width: 0;
+      overflow-wrap: anywhere;
     }
     .sub {
       color: var(--mat-sys-on-surface-variant);
@@ -116,7 +122,7 @@ export class StudyMembers {
   protected readonly role = new FormControl<StudyRole>('viewer', { nonNullable: true });
   protected readonly form = new FormGroup({ userId: this.userId, role: this.role });
 
-  protected add(): void {
+  protected add(f: FormGroupDirective): void {
     const id = this.store.id();
     this.userId.markAsTouched();
     if (id === null || this.userId.invalid) return;
@@ -124,7 +130,8 @@ export class StudyMembers {
     this.api.addMember(id, this.userId.value, this.role.value).subscribe({
       next: () => {
         this.busy.set(false);
-        this.userId.reset();
+        // resetForm also clears "submitted", so the emptied person field is not shown as an error.
+        f.resetForm({ userId: 0, role: this.role.value });
         this.store.reload();
       },
       error: () => this.busy.set(false),
