@@ -7,6 +7,7 @@ import { ALL_STUDY_ROLES, EDITOR_ROLES, studyMember } from '../auth/policy.js';
 import { HttpError } from '../http-error.js';
 import { actorOf } from '../services/actor.js';
 import { parseImportFile } from '../services/import-parse.js';
+import { withOperation } from '../ops/progress.js';
 import { commitImport, createImport, discardImport, getImport, remapImport } from '../services/imports.js';
 
 const importIdParam = z.coerce.number({ message: 'importId must be a number' }).int().positive();
@@ -35,8 +36,15 @@ export function importsRouter(ctx: AppContext): Router {
   r.post('/studies/:id/imports', edit(), upload.single('file'), async (req, res) => {
     if (!req.file) throw new HttpError(400, 'Attach the CSV or XLSX file in the form field "file"', { details: [{ path: 'file', message: 'Required' }] });
     const mapping = parseMappingField((req.body as Record<string, unknown> | undefined)?.['mapping']);
-    const table = await parseImportFile(req.file.originalname, req.file.mimetype, req.file.buffer);
-    const preview = createImport(ctx.db, actorOf(req), req.study!.id, { name: req.file.originalname, buffer: req.file.buffer }, table, mapping);
+    const file = req.file;
+    // Progress for the client's bar: the upload itself is tracked by the browser; here the phases
+    // parse -> validate are reported (each phase is one synchronous step, so it moves per phase).
+    const preview = await withOperation(ctx, req, 'import', async (op) => {
+      op.update('parsing', 0, 2);
+      const table = await parseImportFile(file.originalname, file.mimetype, file.buffer);
+      await op.checkpoint('validating', 1, 2);
+      return createImport(ctx.db, actorOf(req), req.study!.id, { name: file.originalname, buffer: file.buffer }, table, mapping);
+    });
     res.status(201).json({ import: preview });
   });
 
@@ -49,8 +57,13 @@ export function importsRouter(ctx: AppContext): Router {
     res.json({ import: remapImport(ctx.db, req.study!.id, importIdParam.parse(req.params['importId']), mapping) });
   });
 
-  r.post('/studies/:id/imports/:importId/commit', edit(), (req, res) => {
-    res.json(commitImport(ctx.db, actorOf(req), req.study!.id, importIdParam.parse(req.params['importId'])));
+  r.post('/studies/:id/imports/:importId/commit', edit(), async (req, res) => {
+    const id = importIdParam.parse(req.params['importId']);
+    const result = await withOperation(ctx, req, 'import-commit', async (op) => {
+      op.update('writing', 0, 1);
+      return commitImport(ctx.db, actorOf(req), req.study!.id, id);
+    });
+    res.json(result);
   });
 
   r.delete('/studies/:id/imports/:importId', edit(), (req, res) => {
