@@ -259,6 +259,17 @@ export const attachments = sqliteTable(
   (t) => [index('attachments_run').on(t.runId)],
 );
 
+/**
+ * A per-study data revision for caches (run sheet, analysis preview). Kept up by SQL triggers
+ * (drizzle/0002_study-revisions.sql) on every table a study's data lives in, so any write — route,
+ * CLI, import, restore script — moves it on. No foreign key on purpose: the row outlives its study,
+ * so a revision never goes back and a cache entry can never match again after a delete.
+ */
+export const studyRevisions = sqliteTable('study_revisions', {
+  studyId: integer('study_id').primaryKey(),
+  revision: integer('revision').notNull().default(1),
+});
+
 /** Uploaded import files waiting for commit: the parsed rows and the validation outcome. */
 export const imports = sqliteTable('imports', {
   id: integer('id').primaryKey({ autoIncrement: true }),

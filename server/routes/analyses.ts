@@ -13,12 +13,13 @@ import {
   freshness,
   getAnalysisRow,
   listAnalyses,
-  previewAnalysis,
   saveAnalysis,
   studyOfAnalysis,
   type AnalysisRow,
 } from '../services/analysis.js';
 import { approvalRefusal, listReviewRequests } from '../services/review.js';
+import { sendCachedJson } from '../middleware/send-cached.js';
+import { cachedPreview } from '../services/preview-cache.js';
 import { reportHtml, reportPdf } from '../services/report.js';
 
 const idParam = z.coerce.number({ message: 'id must be a number' }).int().positive();
@@ -63,9 +64,10 @@ export function analysesRouter(ctx: AppContext): Router {
   const readAnalysis = () => studyMember(db, { studyRoles: ALL_STUDY_ROLES, studyOf: analysisStudy });
 
   // A preview writes nothing, so read-only tokens may run it.
-  r.post('/studies/:id/analyses/preview', read(), (req, res) => {
+  r.post('/studies/:id/analyses/preview', read(), async (req, res) => {
     const spec = completeSpec(analysisSpec.parse(req.body));
-    res.json(previewAnalysis(ctx.db, req.study!.id, spec));
+    // Cached per study data revision and spec (DEVELOPERS.md, caching).
+    await sendCachedJson(req, res, cachedPreview(ctx.db, req.study!.id, spec));
   });
 
   r.post('/studies/:id/analyses', studyMember(db, { studyRoles: SAVE_ROLES, scope: 'write' }), (req, res) => {

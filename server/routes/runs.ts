@@ -6,7 +6,8 @@ import { ALL_STUDY_ROLES, EDITOR_ROLES, studyMember } from '../auth/policy.js';
 import { actorOf } from '../services/actor.js';
 import { listAudit } from '../services/audit-query.js';
 import { editRuns } from '../services/run-edits.js';
-import { runSheet } from '../services/run-sheet.js';
+import { sendCachedJson } from '../middleware/send-cached.js';
+import { cachedRunSheet } from '../services/run-sheet.js';
 import { getRun, removeRun, restoreRun } from '../services/runs.js';
 
 const runIdParam = z.coerce.number({ message: 'runId must be a number' }).int().positive();
@@ -18,11 +19,10 @@ export function runsRouter(ctx: AppContext): Router {
   const read = () => studyMember(db, { studyRoles: ALL_STUDY_ROLES });
   const edit = () => studyMember(db, { studyRoles: EDITOR_ROLES, scope: 'write' });
 
-  r.get('/studies/:id/runs', read(), (req, res) => {
+  r.get('/studies/:id/runs', read(), async (req, res) => {
     const q = runsQuery.parse(req.query);
-    const sheet = runSheet(ctx.db, req.study!.id, q.includeRemoved === '1' || q.includeRemoved === 'true');
-    // Serialised by hand once: 10 000 runs are a few MB and res.json would stringify the same way.
-    res.type('application/json').send(JSON.stringify(sheet));
+    // Serialised once per data revision (10 000 runs are ~5 MB of JSON); see DEVELOPERS.md, caching.
+    await sendCachedJson(req, res, cachedRunSheet(ctx.db, req.study!.id, q.includeRemoved === '1' || q.includeRemoved === 'true'));
   });
 
   r.post('/studies/:id/runs/batch', edit(), (req, res) => {

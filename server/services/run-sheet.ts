@@ -1,4 +1,5 @@
 import type { Db } from '../db/client.js';
+import { cachedStudyJson, type CachedJson } from './cached-json.js';
 import { loadSetup, type ResponseRow, type Setup } from './study-setup.js';
 
 /**
@@ -127,4 +128,15 @@ export function runSheet(db: Db, studyId: number, includeRemoved: boolean) {
     removed: runs.length - live.length,
   };
   return { studyId, ...setup, counts, runs: includeRemoved ? runs : live };
+}
+
+/** Room for about ten 10 000-run sheets (5.5 MB of JSON + ~0.7 MB gzip each). */
+const RUN_SHEET_CACHE_BYTES = 64 * 2 ** 20;
+
+/**
+ * The serialised run sheet at the study's current data revision. It depends on the study's data
+ * and `includeRemoved` only — the same for every member allowed to read it — so those are the key.
+ */
+export function cachedRunSheet(db: Db, studyId: number, includeRemoved: boolean): CachedJson {
+  return cachedStudyJson(db, 'run-sheet', RUN_SHEET_CACHE_BYTES, studyId, includeRemoved ? 'all' : 'live', () => runSheet(db, studyId, includeRemoved));
 }
