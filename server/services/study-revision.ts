@@ -1,4 +1,18 @@
+import type Database from 'better-sqlite3';
 import type { Db } from '../db/client.js';
+
+// Prepared once per connection: this runs on every cached request, where preparing the statement
+// would cost more than the lookup itself.
+const statements = new WeakMap<Database.Database, Database.Statement<[number], number>>();
+
+function revisionStatement(db: Db): Database.Statement<[number], number> {
+  let stmt = statements.get(db.$client);
+  if (!stmt) {
+    stmt = db.$client.prepare<[number], number>('select revision from study_revisions where study_id = ?').pluck();
+    statements.set(db.$client, stmt);
+  }
+  return stmt;
+}
 
 /**
  * The data revision of a study (table study_revisions, kept up by the triggers of
@@ -9,8 +23,7 @@ import type { Db } from '../db/client.js';
  * would never move on and a cache keyed by it could go stale.
  */
 export function studyRevision(db: Db, studyId: number): number | null {
-  const row = db.$client.prepare('select revision from study_revisions where study_id = ?').pluck().get(studyId) as number | undefined;
-  return row ?? null;
+  return revisionStatement(db).get(studyId) ?? null;
 }
 
 /**
