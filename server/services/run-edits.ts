@@ -3,6 +3,7 @@ import type { RunChange, RunFields } from '../../shared/runs.js';
 import type { Db } from '../db/client.js';
 import { HttpError } from '../http-error.js';
 import type { Actor } from './actor.js';
+import { AuditBatch } from './audit-batch.js';
 import { isOutOfRange, loadRuns, type Run } from './run-sheet.js';
 import { loadSetup, type Setup } from './study-setup.js';
 import { autoAdvance, touchStudyTime } from './studies.js';
@@ -53,15 +54,16 @@ function decimalProblem(text: string): string {
   return `"${text}" is not a number`;
 }
 
-export function applyRunEdits(db: Db, actor: Actor, studyId: number, edits: EditInput[], opts: EditOptions, setupIn?: Setup): EditResult {
+/**
+ * `currentIn`: the study's runs by id as already read inside the caller's transaction (the import
+ * commit has just validated against them), to save a second read of a 50 000-run sheet.
+ */
+export function applyRunEdits(db: Db, actor: Actor, studyId: number, edits: EditInput[], opts: EditOptions, setupIn?: Setup, currentIn?: Map<number, Run>): EditResult {
   const setup = setupIn ?? loadSetup(db, studyId);
   const responses = new Map(setup.responses.map((r) => [r.symbol, r]));
   const factors = new Map(setup.factors.map((f) => [f.symbol, f]));
   const outcomeIds = new Map(setup.outcomes.map((o) => [o.id, o]));
-  const ids = [...new Set(edits.map((e) => e.runId))];
-  // Large edits (imports, pushes) read the whole sheet in one pass: cheaper than an id filter of 10^4+ ids.
-  const loaded = ids.length > 1000 ? loadRuns(db, studyId, { includeRemoved: true, setup }) : loadRuns(db, studyId, { ids, setup });
-  const current = new Map(loaded.map((r) => [r.id, r]));
+  const current = currentIn ?? loadCurrent(db, studyId, edits, setup);
 
   const problems: Problem[] = [];
   const seen = new Set<number>();
@@ -103,6 +105,13 @@ export function applyRunEdits(db: Db, actor: Actor, studyId: number, edits: Edit
   return write(db, actor, studyId, edits, current, setup, opts);
 }
 
+function loadCurrent(db: Db, studyId: number, edits: EditInput[], setup: Setup): Map<number, Run> {
+  const ids = [...new Set(edits.map((e) => e.runId))];
+  // Large edits (imports, pushes) read the whole sheet in one pass: cheaper than an id filter of 10^4+ ids.
+  const loaded = ids.length > 1000 ? loadRuns(db, studyId, { includeRemoved: true, setup }) : loadRuns(db, studyId, { ids, setup });
+  return new Map(loaded.map((r) => [r.id, r]));
+}
+
 function write(db: Db, actor: Actor, studyId: number, edits: EditInput[], current: Map<number, Run>, setup: Setup, opts: EditOptions): EditResult {
   const c = db.$client;
   const now = Date.now();
@@ -118,9 +127,7 @@ function write(db: Db, actor: Actor, studyId: number, edits: EditInput[], curren
   const updateRun = c.prepare(
     'update runs set outcome_id = ?, outcome_reason = ?, operator = ?, tested_on = ?, notes = ?, version = version + 1, updated_at = ? where id = ?',
   );
-  const insertAudit = c.prepare(
-    'insert into audit_events (at, user_id, token_id, study_id, run_id, entity, entity_id, action, field, old_value, new_value, reason) values (?, ?, ?, ?, ?, \'run\', ?, ?, ?, ?, ?, ?)',
-  );
+  const auditRows = new AuditBatch(c);
   const responses = new Map(setup.responses.map((r) => [r.symbol, r]));
   const factors = new Map(setup.factors.map((f) => [f.symbol, f]));
   const outcomeLabel = new Map(setup.outcomes.map((o) => [o.id, o.label]));
@@ -133,7 +140,7 @@ function write(db: Db, actor: Actor, studyId: number, edits: EditInput[], curren
     const undo: EditInput = { runId: run.id, version: run.version + 1 };
     const note = (field: string, oldValue: string | null, newValue: string | null) => {
       changes.push({ runId: run.id, code: run.code, field, oldValue, newValue });
-      insertAudit.run(now, actor.userId, actor.tokenId, studyId, run.id, String(run.id), opts.source, field, oldValue, newValue, opts.reason ?? null);
+      auditRows.add({ at: now, userId: actor.userId, tokenId: actor.tokenId, studyId, runId: run.id, entity: 'run', entityId: String(run.id), action: opts.source, field, oldValue, newValue, reason: opts.reason ?? null });
     };
     for (const [sym, raw] of Object.entries(e.values ?? {})) {
       const text = raw === null || raw.trim() === '' ? null : raw.trim();
@@ -180,6 +187,7 @@ function write(db: Db, actor: Actor, studyId: number, edits: EditInput[], curren
     result.runIds.push(run.id);
     result.undo.push(undo);
   }
+  auditRows.flush(); // before the status change below audits, so ids keep the order of events
   if (result.runIds.length) touchStudyTime(db, studyId);
   if (anyValue) autoAdvance(db, actor, studyId, 'planned', 'collecting', 'first result recorded');
   return result;
