@@ -9,37 +9,9 @@ import { loadSetup, type ResponseRow, type Setup } from './study-setup.js';
  * so both see the same `excluded` rule.
  */
 
-export interface CellValue {
-  text: string;
-  value: number;
-}
-export interface SheetValue extends CellValue {
-  outOfRange: boolean;
-}
+import type { CellValue, Run, SheetValue } from '../../shared/run-sheet.js';
 
-export interface Run {
-  id: number;
-  code: string;
-  standardOrder: number;
-  runOrder: number;
-  block: string;
-  centrePoint: boolean;
-  settings: Record<string, string>;
-  measured: Record<string, CellValue>;
-  values: Record<string, SheetValue>;
-  outcomeId: number | null;
-  outcomeReason: string;
-  /** Not counted in the analysis: the outcome is marked not valid, or the run was removed. */
-  excluded: boolean;
-  operator: string;
-  testedOn: string;
-  notes: string;
-  attachmentCount: number;
-  removedAt: number | null;
-  removedReason: string | null;
-  version: number;
-  updatedAt: number;
-}
+export type { CellValue, Run, SheetValue };
 
 /** Column order of the runs query, read with .raw() (arrays are cheaper than row objects at 10^4-10^5 rows). */
 type RunRowRaw = [number, string, number, number, string, number, string, number | null, string, string, string, string, number | null, string | null, number, number];

@@ -1,11 +1,13 @@
 import type { StudyRole } from '../../../shared/roles';
 import type { ImportErrorKind, ImportRowError, PlanBody, RunFields } from '../../../shared/runs';
+import type { CellValue, Run, SheetValue } from '../../../shared/run-sheet';
 import type { StudyStatus } from '../../../shared/studies';
 
 /**
  * The shapes the studies API answers with (docs/api-studies.md). Request bodies come from
  * shared/studies.ts and shared/runs.ts; the server keeps its answer types beside its services, which
- * the client cannot import, so they are restated here from the contract.
+ * the client cannot import, so they are restated here from the contract (the run itself is shared:
+ * shared/run-sheet.ts).
  */
 
 export type ViewerRole = StudyRole | 'admin';
@@ -145,37 +147,7 @@ export interface StudyDetail extends StudySummary {
   plan: Plan | null;
 }
 
-export interface CellValue {
-  text: string;
-  value: number;
-}
-
-export interface SheetValue extends CellValue {
-  outOfRange: boolean;
-}
-
-export interface Run {
-  id: number;
-  code: string;
-  standardOrder: number;
-  runOrder: number;
-  block: string;
-  centrePoint: boolean;
-  settings: Record<string, string>;
-  measured: Record<string, CellValue>;
-  values: Record<string, SheetValue>;
-  outcomeId: number | null;
-  outcomeReason: string;
-  excluded: boolean;
-  operator: string;
-  testedOn: string;
-  notes: string;
-  attachmentCount: number;
-  removedAt: number | null;
-  removedReason: string | null;
-  version: number;
-  updatedAt: number;
-}
+export type { CellValue, Run, SheetValue };
 
 export interface RunSheet {
   studyId: number;
