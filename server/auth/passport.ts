@@ -1,10 +1,13 @@
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import type { AppContext } from '../context.js';
+import { preparedFor } from '../db/prepared.js';
 import { users } from '../db/schema.js';
 import { dummyPasswordHash, verifyPassword } from './passwords.js';
 import { toPublicUser } from '../services/users.js';
+
+const userById = preparedFor((db) => db.select().from(users).where(eq(users.id, sql.placeholder('id'))).prepare());
 
 /**
  * passport-local over the users table. The session holds only the user id; every request re-reads
@@ -27,7 +30,7 @@ export function configurePassport(ctx: AppContext): passport.PassportStatic {
   );
   pp.serializeUser((user, done) => done(null, user.id));
   pp.deserializeUser((id: number, done) => {
-    const user = ctx.db.select().from(users).where(eq(users.id, id)).get();
+    const user = userById(ctx.db).get({ id });
     // A missing or deactivated user simply has no session any more (false = signed out).
     done(null, user && user.active ? toPublicUser(user) : false);
   });

@@ -1,7 +1,8 @@
 import type { Request, RequestHandler } from 'express';
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
 import type { Role, StudyRole } from '../../shared/roles.js';
 import type { Db } from '../db/client.js';
+import { preparedFor } from '../db/prepared.js';
 import { studyMembers, studies } from '../db/schema.js';
 import { HttpError } from '../http-error.js';
 
@@ -50,6 +51,16 @@ declare global {
   }
 }
 
+// Run on every study route: prepared once per database.
+const studyExists = preparedFor((db) => db.select({ id: studies.id }).from(studies).where(eq(studies.id, sql.placeholder('studyId'))).prepare());
+const memberRole = preparedFor((db) =>
+  db
+    .select({ role: studyMembers.role })
+    .from(studyMembers)
+    .where(and(eq(studyMembers.studyId, sql.placeholder('studyId')), eq(studyMembers.userId, sql.placeholder('userId'))))
+    .prepare(),
+);
+
 export const ALL_STUDY_ROLES: readonly StudyRole[] = ['owner', 'contributor', 'reviewer', 'viewer'];
 export const EDITOR_ROLES: readonly StudyRole[] = ['owner', 'contributor'];
 
@@ -81,17 +92,13 @@ export function studyMember(
     const database = db();
     const studyId = (opts.studyOf ?? paramStudyId)(req, database);
     if (studyId === undefined) throw new HttpError(404, 'The study was not found');
-    const study = database.select({ id: studies.id }).from(studies).where(eq(studies.id, studyId)).get();
+    const study = studyExists(database).get({ studyId });
     if (!study) throw new HttpError(404, 'The study was not found');
     if (user.role === 'admin') {
       req.study = { id: studyId, role: 'admin' };
       return next();
     }
-    const member = database
-      .select({ role: studyMembers.role })
-      .from(studyMembers)
-      .where(and(eq(studyMembers.studyId, studyId), eq(studyMembers.userId, user.id)))
-      .get();
+    const member = memberRole(database).get({ studyId, userId: user.id });
     // Non-members get 404, not 403: the existence of a study is itself not disclosed.
     if (!member) throw new HttpError(404, 'The study was not found');
     if (!opts.studyRoles.includes(member.role)) {

@@ -1,4 +1,4 @@
-import { gunzipSync } from 'node:zlib';
+import { brotliDecompressSync, gunzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { completeSpec, previewAnalysis } from '../../server/services/analysis.js';
 import { runSheet } from '../../server/services/run-sheet.js';
@@ -189,25 +189,38 @@ describe('run-sheet cache', () => {
     expect(((await engineer.get(`/api/studies/${f.id}/runs`)).body as SheetBody).runs[0]!.notes).toBe('written by a script');
   });
 
-  it('sends gzip to clients that accept it, the same JSON as uncompressed', async () => {
+  it('sends Brotli or gzip to clients that accept them, the same JSON as uncompressed', async () => {
     const f = fixture();
     const plain = await engineer.agent.get(`/api/studies/${f.id}/runs`).set('Accept-Encoding', 'identity');
     expect(plain.headers['content-encoding']).toBeUndefined();
-    const zipped = await engineer.agent
-      .get(`/api/studies/${f.id}/runs`)
-      .set('Accept-Encoding', 'gzip, deflate, br')
-      .buffer(true)
-      .parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
-    expect(zipped.headers['content-encoding']).toBe('gzip');
-    expect(zipped.headers['vary']).toMatch(/Accept-Encoding/i);
-    // supertest leaves the body compressed when parse() is given: decode it ourselves
-    const raw = zipped.body as Buffer;
-    const text = raw[0] === 0x1f && raw[1] === 0x8b ? gunzipSync(raw).toString('utf8') : raw.toString('utf8');
-    expect(JSON.parse(text)).toEqual(plain.body);
+    const fetchRaw = (acceptEncoding: string) =>
+      engineer.agent
+        .get(`/api/studies/${f.id}/runs`)
+        .set('Accept-Encoding', acceptEncoding)
+        .buffer(true)
+        .parse((r, cb) => {
+          const chunks: Buffer[] = [];
+          r.on('data', (c: Buffer) => chunks.push(c));
+          r.on('end', () => cb(null, Buffer.concat(chunks)));
+        });
+    // What each Accept-Encoding should get (RFC 9110 §12.5.3: q=0 means "not acceptable"; equal q leaves the choice to the server).
+    const cases: [string, string | undefined][] = [
+      ['gzip, deflate, br, zstd', 'br'],
+      ['gzip, deflate, br', 'br'],
+      ['gzip', 'gzip'],
+      ['br;q=0.5, gzip', 'gzip'],
+      ['br;q=0, gzip;q=0', undefined],
+    ];
+    for (const [asked, expected] of cases) {
+      const res = await fetchRaw(asked);
+      expect(res.headers['content-encoding'], asked).toBe(expected);
+      expect(res.headers['vary']).toMatch(/Accept-Encoding/i);
+      // superagent may or may not have decoded the body already when parse() is given: decode it if not
+      const raw = res.body as Buffer;
+      const looksLikeJson = raw[0] === 0x7b;
+      const text = looksLikeJson ? raw.toString('utf8') : expected === 'br' ? brotliDecompressSync(raw).toString('utf8') : gunzipSync(raw).toString('utf8');
+      expect(JSON.parse(text), asked).toEqual(plain.body);
+    }
     expect(plain.body).toEqual(JSON.parse(JSON.stringify(runSheet(t.ctx.db, f.id, false))));
   });
 
