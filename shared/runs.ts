@@ -89,7 +89,11 @@ export const runRemoveBody = z.object({
 });
 export const runRestoreBody = z.object({ reason: z.string({ message: 'Say why the run is restored' }).trim().min(3, 'Say why the run is restored').max(1000) });
 
-export const runsQuery = z.object({ includeRemoved: z.enum(['0', '1', 'true', 'false']).optional() });
+export const runsQuery = z.object({
+  includeRemoved: z.enum(['0', '1', 'true', 'false']).optional(),
+  /** rows (default): `runs` is an array of run objects; columns: `runs` is one array per field (shared/run-sheet.ts RunColumns) */
+  layout: z.enum(['rows', 'columns'], { message: 'layout must be rows or columns' }).optional(),
+});
 
 /** One change as reported back (for undo and the history view). */
 export interface RunChange {

@@ -2,6 +2,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import type { SessionData } from 'express-session';
 import { openDatabase } from '../db/client.js';
 import { DrizzleSessionStore, TOUCH_WRITE_INTERVAL_MS } from './session-store.js';
 
@@ -13,7 +14,7 @@ let store: DrizzleSessionStore;
 let rawExpiry: (sid: string) => number | undefined;
 let close: () => void;
 
-const cookieExpiring = (at: number) => ({ cookie: { expires: new Date(at), originalMaxAge: 1 } }) as never;
+const cookieExpiring = (at: number) => ({ cookie: { expires: new Date(at), originalMaxAge: 1 } }) as unknown as SessionData;
 const get = (sid: string) => new Promise<unknown>((resolve, reject) => store.get(sid, (err, data) => (err ? reject(err) : resolve(data))));
 
 beforeEach(() => {
@@ -31,7 +32,7 @@ afterEach(() => {
 describe('DrizzleSessionStore', () => {
   it('stores, reads back and destroys a session', async () => {
     const at = Date.now() + 3_600_000;
-    store.set('s1', { ...cookieExpiring(at), passport: { user: 7 } } as never);
+    store.set('s1', { ...cookieExpiring(at), passport: { user: 7 } } as SessionData);
     expect(await get('s1')).toMatchObject({ passport: { user: 7 } });
     expect(rawExpiry('s1')).toBe(at);
     store.destroy('s1');

@@ -22,7 +22,7 @@ export function runsRouter(ctx: AppContext): Router {
   r.get('/studies/:id/runs', read(), async (req, res) => {
     const q = runsQuery.parse(req.query);
     // Serialised once per data revision (10 000 runs are ~5 MB of JSON); see DEVELOPERS.md, caching.
-    await sendCachedJson(req, res, cachedRunSheet(ctx.db, req.study!.id, q.includeRemoved === '1' || q.includeRemoved === 'true'));
+    await sendCachedJson(req, res, cachedRunSheet(ctx.db, req.study!.id, q.includeRemoved === '1' || q.includeRemoved === 'true', q.layout ?? 'rows'));
   });
 
   r.post('/studies/:id/runs/batch', edit(), (req, res) => {

@@ -9,7 +9,7 @@ import { loadSetup, type ResponseRow, type Setup } from './study-setup.js';
  * so both see the same `excluded` rule.
  */
 
-import type { CellValue, Run, SheetValue } from '../../shared/run-sheet.js';
+import { encodeRunColumns, type CellValue, type Run, type SheetValue } from '../../shared/run-sheet.js';
 
 export type { CellValue, Run, SheetValue };
 
@@ -109,6 +109,9 @@ const RUN_SHEET_CACHE_BYTES = 64 * 2 ** 20;
  * The serialised run sheet at the study's current data revision. It depends on the study's data
  * and `includeRemoved` only — the same for every member allowed to read it — so those are the key.
  */
-export function cachedRunSheet(db: Db, studyId: number, includeRemoved: boolean): CachedJson {
-  return cachedStudyJson(db, 'run-sheet', RUN_SHEET_CACHE_BYTES, studyId, includeRemoved ? 'all' : 'live', () => runSheet(db, studyId, includeRemoved));
+export function cachedRunSheet(db: Db, studyId: number, includeRemoved: boolean, layout: 'rows' | 'columns' = 'rows'): CachedJson {
+  return cachedStudyJson(db, 'run-sheet', RUN_SHEET_CACHE_BYTES, studyId, `${includeRemoved ? 'all' : 'live'}:${layout}`, () => {
+    const sheet = runSheet(db, studyId, includeRemoved);
+    return layout === 'columns' ? { ...sheet, runs: encodeRunColumns(sheet.runs) } : sheet;
+  });
 }

@@ -4,6 +4,7 @@ import { completeSpec, previewAnalysis } from '../../server/services/analysis.js
 import { runSheet } from '../../server/services/run-sheet.js';
 import { studyRevision } from '../../server/services/study-revision.js';
 import { analysisSpec } from '../../shared/analysis.js';
+import { decodeRunColumns, type RunColumns } from '../../shared/run-sheet.js';
 import { insertStudy, rel, warpbreaks, warpbreaksStudy } from './analysis-fixtures.js';
 import { signIn, startTestApp, type Client, type TestApp } from './harness.js';
 import { makeStudy, userId } from './study-fixtures.js';
@@ -160,7 +161,7 @@ describe('study revision triggers', () => {
 });
 
 interface SheetBody {
-  runs: { id: number; code: string; values: Record<string, { text: string }>; notes: string }[];
+  runs: { id: number; code: string; values: Record<string, { text: string }>; notes: string; version: number }[];
   counts: Record<string, number>;
 }
 
@@ -222,6 +223,25 @@ describe('run-sheet cache', () => {
       expect(JSON.parse(text), asked).toEqual(plain.body);
     }
     expect(plain.body).toEqual(JSON.parse(JSON.stringify(runSheet(t.ctx.db, f.id, false))));
+  });
+
+  it('sends the column layout on request, the same runs as the row layout once decoded', async () => {
+    // The seeded demo study has invalid runs, out-of-range values and a removed run is added here.
+    const demoId = (t.ctx.db.$client.prepare('select min(id) from studies').pluck().get() as number);
+    const sheet = (await engineer.get(`/api/studies/${demoId}/runs`)).body as SheetBody;
+    const victim = sheet.runs[3]!;
+    await engineer.delete(`/api/studies/${demoId}/runs/${victim.id}`, { reason: 'specimen mislabelled', version: victim.version });
+    for (const q of ['', '&includeRemoved=1']) {
+      const rows = await engineer.get(`/api/studies/${demoId}/runs?layout=rows${q}`);
+      const cols = await engineer.get(`/api/studies/${demoId}/runs?layout=columns${q}`);
+      expect(cols.status).toBe(200);
+      expect(cols.headers['etag']).not.toBe(rows.headers['etag']);
+      const body = cols.body as SheetBody & { runs: RunColumns };
+      expect(body.runs.layout).toBe('columns');
+      expect(body.runs.count).toBe((rows.body as SheetBody).runs.length);
+      expect({ ...body, runs: decodeRunColumns(body.runs) }).toEqual(rows.body);
+    }
+    expect((await engineer.get(`/api/studies/${demoId}/runs?layout=sideways`)).status).toBe(400);
   });
 
   it('keeps the removed-runs variant apart from the live one', async () => {

@@ -1,8 +1,8 @@
-import { execFileSync } from 'node:child_process';
-import { existsSync, readFileSync, rmSync } from 'node:fs';
+import { execFileSync, fork } from 'node:child_process';
+import { existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { gzipSync } from 'node:zlib';
+import { brotliCompressSync, constants as zlibConstants, gzipSync } from 'node:zlib';
 import { csv } from '../api/hardening-files.js';
 import { prepareData, signInHttp, startServer } from './bench-server.js';
 import { load, type LoadFigure } from './load-bench.js';
@@ -15,6 +15,26 @@ const SECONDS = Number(process.env['BENCH_SECONDS'] ?? 5);
 const CONNECTIONS = [1, 10, 50];
 const CLIENT_DIR = path.resolve('dist/specimetry/browser');
 const PREVIEW_TIMEOUT_MS = 60_000;
+/** What Chromium 156 sends (common practice, no source: read off the browser's request headers). */
+const BROWSER_ACCEPT_ENCODING = 'gzip, deflate, br, zstd';
+
+/** Starts tests/bench/floor-server.mjs in its own process, serving `body` as-is. */
+async function floorServer(body: Buffer, encoding: string): Promise<{ url: string; stop: () => void }> {
+  const file = path.join(os.tmpdir(), `specimetry-floor-${process.pid}.bin`);
+  writeFileSync(file, body);
+  const child = fork(path.resolve('tests/bench/floor-server.mjs'), [file, encoding], { stdio: 'ignore' });
+  const port = await new Promise<number>((resolve, reject) => {
+    child.once('message', (m) => resolve((m as { port: number }).port));
+    child.once('exit', (code) => reject(new Error(`the floor server exited (${code})`)));
+  });
+  return {
+    url: `http://127.0.0.1:${port}/`,
+    stop: () => {
+      child.kill('SIGTERM');
+      rmSync(file, { force: true });
+    },
+  };
+}
 
 function machine(): string {
   return `${os.cpus()[0]?.model ?? 'unknown CPU'} x${os.cpus().length}, ${(os.totalmem() / 2 ** 30).toFixed(1)} GiB, Node ${process.version}, ${os.platform()} ${os.release()}`;
@@ -34,11 +54,36 @@ async function benchServer(): Promise<void> {
     const auth = await signInHttp(base);
     const headers = { cookie: auth.cookie, 'x-xsrf-token': auth.xsrf };
     const rows: LoadFigure[] = [];
-    // The run sheet is fetched as a browser fetches it: with Accept-Encoding (every browser sends it),
-    // so the server answers with its cached gzip body; the response is not conditional (no If-None-Match).
-    const sheetHeaders = { ...headers, 'accept-encoding': 'gzip, deflate, br' };
-    for (const c of CONNECTIONS) rows.push(await load('GET run sheet (10 000 runs, gzip)', { url: `${base}/api/studies/${sheet.studyId}/runs`, connections: c, seconds: SECONDS, headers: sheetHeaders }));
-    console.log(`\nLoad (${SECONDS} s per run; target: run-sheet p95 <= 50 ms at 50 clients):`);
+    // The run sheet is fetched as the grid fetches it: in column layout (?layout=columns), with the
+    // Accept-Encoding a current browser sends, so the server answers with its cached Brotli body.
+    // First load: not conditional (no If-None-Match), the worst case. Revisit: the browser kept the
+    // answer and revalidates it with the ETag (Cache-Control: private, no-cache), as it does every
+    // later time the sheet is opened while the data have not changed. The row layout (what a script
+    // gets without ?layout) is measured too.
+    const sheetUrl = `${base}/api/studies/${sheet.studyId}/runs?layout=columns`;
+    const rowsUrl = `${base}/api/studies/${sheet.studyId}/runs`;
+    const sheetHeaders = { ...headers, 'accept-encoding': BROWSER_ACCEPT_ENCODING };
+    const first = await fetch(sheetUrl, { headers: sheetHeaders });
+    const sheetBytes = Buffer.from(await first.arrayBuffer());
+    const rowsBytes = Buffer.from(await (await fetch(rowsUrl, { headers: sheetHeaders })).arrayBuffer());
+    const encoding = first.headers.get('content-encoding') ?? '';
+    // fetch decodes the body; the bytes on the wire are the encoded form, made again here (same settings as the server) for the floor server
+    const encode = (b: Buffer) => (encoding === 'br' ? brotliCompressSync(b, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 6, [zlibConstants.BROTLI_PARAM_MODE]: zlibConstants.BROTLI_MODE_TEXT } }) : encoding === 'gzip' ? gzipSync(b, { level: 6 }) : b);
+    const wire = encode(sheetBytes);
+    const etag = first.headers.get('etag') ?? '';
+    for (const c of CONNECTIONS) rows.push(await load('GET run sheet as the grid loads it (columns), first load', { url: sheetUrl, connections: c, seconds: SECONDS, headers: sheetHeaders }));
+    for (const c of CONNECTIONS) rows.push(await load('GET run sheet, revisit (If-None-Match → 304)', { url: sheetUrl, connections: c, seconds: SECONDS, headers: { ...sheetHeaders, 'if-none-match': etag } }));
+    const floor = await floorServer(wire, encoding);
+    try {
+      for (const c of CONNECTIONS) rows.push(await load('floor: bare node:http, the same bytes', { url: floor.url, connections: c, seconds: SECONDS, headers: {} }));
+    } finally {
+      floor.stop();
+    }
+    for (const c of CONNECTIONS) rows.push(await load('GET run sheet, row layout (scripts), first load', { url: rowsUrl, connections: c, seconds: SECONDS, headers: sheetHeaders }));
+    console.log(
+      `\nLoad (${SECONDS} s per run; target: run-sheet p95 <= 50 ms at 50 clients). Run sheet, 10 000 runs: columns ${(sheetBytes.length / 1e6).toFixed(2)} MB JSON, ${(wire.length / 1e3).toFixed(0)} kB on the wire; ` +
+        `rows ${(rowsBytes.length / 1e6).toFixed(2)} MB JSON, ${(encode(rowsBytes).length / 1e3).toFixed(0)} kB on the wire (${encoding || 'identity'}):`,
+    );
     printLoad(rows);
 
     await benchImport(base, headers, importTarget.studyId, importTarget.runs.map((r) => r.code));
@@ -46,8 +91,9 @@ async function benchServer(): Promise<void> {
     // Last, because a slow preview keeps the (single-threaded) server busy after the client gives up.
     const spec = JSON.stringify({ response: 'H', factors: ['W', 'A', 'K', 'O'] });
     const previewUrl = `${base}/api/studies/${sheet.studyId}/analyses/preview`;
+    const previewHeaders = { ...headers, 'content-type': 'application/json', 'accept-encoding': BROWSER_ACCEPT_ENCODING };
     const t0 = performance.now();
-    const probe = await fetch(previewUrl, { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: spec, signal: AbortSignal.timeout(PREVIEW_TIMEOUT_MS) }).then(
+    const probe = await fetch(previewUrl, { method: 'POST', headers: previewHeaders, body: spec, signal: AbortSignal.timeout(PREVIEW_TIMEOUT_MS) }).then(
       (r) => r,
       () => null,
     );
@@ -65,7 +111,7 @@ async function benchServer(): Promise<void> {
       console.log(`  first request: ${single.toFixed(0)} ms`);
       const previews: LoadFigure[] = [];
       for (const c of CONNECTIONS) {
-        previews.push(await load('POST analysis preview', { url: previewUrl, method: 'POST', connections: c, seconds: SECONDS, headers: { ...headers, 'content-type': 'application/json' }, body: spec }));
+        previews.push(await load('POST analysis preview', { url: previewUrl, method: 'POST', connections: c, seconds: SECONDS, headers: previewHeaders, body: spec }));
       }
       printLoad(previews);
     }

@@ -3,6 +3,7 @@ import { Injectable, inject } from '@angular/core';
 import { Observable, catchError, map, of } from 'rxjs';
 import type { OperationProgress } from '../../../shared/operations';
 import type { StudyRole } from '../../../shared/roles';
+import { decodeRunColumns, type RunColumns } from '../../../shared/run-sheet';
 import type { PlanBody, RunBatchBody, RunEdit, RunPatchBody } from '../../../shared/runs';
 import type { FactorInput, OutcomesBody, ResponseInput, StudyCreateBody, StudyListQuery, StudyPatchBody } from '../../../shared/studies';
 import { ERRORS_SHOWN_INLINE } from '../core/api-error';
@@ -85,8 +86,12 @@ export class StudyApi {
     return this.http.post<{ plan: Plan; runCount: number }>(`${this.base}/${id}/plan`, body, inline());
   }
 
+  /** The sheet in column layout (about half the bytes of the row layout for big studies), turned back into rows. */
   runs(id: number, includeRemoved: boolean): Observable<RunSheet> {
-    return this.http.get<RunSheet>(`${this.base}/${id}/runs`, { params: includeRemoved ? { includeRemoved: '1' } : {} });
+    const params: Record<string, string> = includeRemoved ? { includeRemoved: '1', layout: 'columns' } : { layout: 'columns' };
+    return this.http
+      .get<Omit<RunSheet, 'runs'> & { runs: RunColumns }>(`${this.base}/${id}/runs`, { params })
+      .pipe(map((sheet) => ({ ...sheet, runs: decodeRunColumns(sheet.runs) })));
   }
 
   patchRun(id: number, runId: number, body: RunPatchBody): Observable<{ run: Run; warnings: string[] }> {
