@@ -175,6 +175,38 @@ describe('studies: an engineer sets up, plans, records and imports; a viewer onl
     await waitForCount(page, 'count-recorded', '3');
   });
 
+  it('shows a conflict instead of overwriting when someone else saved the run first', async () => {
+    // Another client (here: a fetch with the same account, behind the grid's back) saves R008 first.
+    const studyId = Number(studyPath.split('/').pop());
+    const stored = await page.evaluate(async (id) => {
+      const xsrf = decodeURIComponent(document.cookie.match(/XSRF-TOKEN=([^;]+)/)?.[1] ?? '');
+      const sheet = (await (await fetch(`/api/studies/${id}/runs`)).json()) as { runs: { id: number; code: string; version: number }[] };
+      const run = sheet.runs.find((r) => r.code === 'R008')!;
+      const res = await fetch(`/api/studies/${id}/runs/${run.id}`, {
+        method: 'PATCH',
+        headers: { 'content-type': 'application/json', 'x-xsrf-token': xsrf },
+        body: JSON.stringify({ version: run.version, values: { H: '0.777' } }),
+      });
+      return res.status;
+    }, studyId);
+    expect(stored).toBe(200);
+    const row = Number(await page.locator('ag-grid-angular [role=row]:has([col-id="code"]:text-is("R008"))').first().getAttribute('row-index'));
+    await cell(page, row, 'val:H').click();
+    await page.keyboard.type('0.901');
+    await page.keyboard.press('Enter');
+    await page.getByTestId('conflict').waitFor();
+    expect((await page.getByTestId('conflict-theirs').textContent())?.trim()).toBe('0.777');
+    expect((await page.getByTestId('conflict-mine').textContent())?.trim()).toBe('0.901');
+    await screenshot(page, 'studies-grid-conflict');
+    await page.getByRole('button', { name: 'Keep the stored value' }).click();
+    // The grid shows what is stored, not what was typed.
+    await page.waitForFunction(
+      ([r]) => document.querySelector(`ag-grid-angular [role=row][row-index="${r}"] [col-id="val:H"]`)?.textContent?.trim() === '0.777',
+      [row] as const,
+    );
+    await waitForCount(page, 'count-recorded', '4');
+  });
+
   it('imports a CSV: sees the bad row, fixes the file, commits', async () => {
     await page.locator('[data-tab=import]').click();
     const bad = 'Run,H,psi\nR004,0.931,58.0\nR005,abc,57.5\nR006,0.948,59.1\n';
@@ -193,7 +225,7 @@ describe('studies: an engineer sets up, plans, records and imports; a viewer onl
     await screenshot(page, 'studies-import-done');
 
     await page.locator('[data-tab=runs]').click();
-    await waitForCount(page, 'count-recorded', '6');
+    await waitForCount(page, 'count-recorded', '7');
   });
 
   it('uploads an attachment to a run and shows its SHA-256', async () => {
@@ -240,7 +272,7 @@ describe('studies: an engineer sets up, plans, records and imports; a viewer onl
 
     await page.locator('[data-tab=runs]').click();
     await page.getByTestId('read-only-note').waitFor();
-    expect(await count(page, 'count-recorded')).toBe('6');
+    expect(await count(page, 'count-recorded')).toBe('7');
     await cell(page, 3, 'val:H').dblclick();
     await page.keyboard.type('1.111');
     await page.keyboard.press('Enter');

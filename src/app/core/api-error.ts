@@ -16,6 +16,8 @@ export class ApiError extends Error {
     readonly status: number,
     message: string,
     readonly details: readonly ApiErrorDetail[] = [],
+    /** What the server holds now, when it sent it (a 409 on a stale run edit carries the run). */
+    readonly current?: unknown,
   ) {
     super(message);
     this.name = 'ApiError';
@@ -60,7 +62,7 @@ function fallbackMessage(status: number, url: string | null): string {
 export function toApiError(response: HttpErrorResponse): ApiError {
   const body: unknown = response.error;
   if (response.status !== 0 && isErrorBody(body) && body.message.trim() !== '') {
-    return new ApiError(response.status, body.message, readDetails(body));
+    return new ApiError(response.status, body.message, readDetails(body), body.current);
   }
   return new ApiError(response.status, fallbackMessage(response.status, response.url));
 }

@@ -7,7 +7,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { RouterLink } from '@angular/router';
-import { of } from 'rxjs';
+import { map, of } from 'rxjs';
 import type { RunEdit } from '../../../shared/runs';
 import { ApiError } from '../core/api-error';
 import { Notifier } from '../core/notifier';
@@ -108,26 +108,32 @@ export class RunSheetPage {
         this.refreshHeader();
       },
       error: (err: unknown) => {
-        if (err instanceof ApiError && err.status === 409) this.resolveConflict(id, edit, e);
+        if (err instanceof ApiError && err.status === 409) this.resolveConflict(id, edit, e, err.current);
         else if (err instanceof ApiError) this.notifier.error(`Run ${e.run.code}: ${err.message}`);
       },
     });
   }
 
-  /** Someone saved this run after we loaded it: fetch what is stored now and let the user choose. */
-  private resolveConflict(id: number, edit: RunEdit, e: CellEdit): void {
-    this.api.runs(id, this.includeRemoved()).subscribe((sheet) => {
-      const current = sheet.runs.find((r) => r.id === edit.runId);
+  /**
+   * Someone saved this run after we loaded it: show what is stored now (the 409 carries the run; the
+   * sheet is fetched only when it does not) and let the user choose.
+   */
+  private resolveConflict(id: number, edit: RunEdit, e: CellEdit, sent: unknown): void {
+    const stored = isRunFor(sent, edit.runId)
+      ? of({ current: sent, outcomes: this.outcomes() })
+      : this.api.runs(id, this.includeRemoved()).pipe(map((sheet) => ({ current: sheet.runs.find((r) => r.id === edit.runId), outcomes: sheet.outcomes })));
+    stored.subscribe(({ current, outcomes }) => {
       const spec = this.specs().get(e.colId);
       if (!current || !spec) return;
       this.replace([current]);
-      const conflict = cellConflict(spec, edit, e.oldText, e.newText, current, sheet.outcomes);
+      this.refreshHeader();
+      const conflict = cellConflict(spec, edit, e.oldText, e.newText, current, outcomes);
       if (!conflict) return;
       this.dialog
         .open<ConflictDialog, typeof conflict, ConflictChoice>(ConflictDialog, { data: conflict, width: '480px' })
         .afterClosed()
         .subscribe((choice) => {
-          if (choice === 'mine') this.send(id, conflict.retry, { ...e, run: current, oldText: cellText(spec, current, sheet.outcomes) });
+          if (choice === 'mine') this.send(id, conflict.retry, { ...e, run: current, oldText: cellText(spec, current, outcomes) });
         });
     });
   }
@@ -220,4 +226,11 @@ export class RunSheetPage {
         });
       });
   }
+}
+
+/** The run a 409 sent back, when it is one (shape checked: it comes from the network). */
+function isRunFor(x: unknown, runId: number): x is Run {
+  if (typeof x !== 'object' || x === null) return false;
+  const r = x as Partial<Run>;
+  return r.id === runId && typeof r.version === 'number' && typeof r.code === 'string' && typeof r.values === 'object' && typeof r.settings === 'object';
 }
