@@ -1,34 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { decodeRunColumns, encodeRunColumns, type Run } from './run-sheet.js';
+import { blankRun } from './testing/blank-run.js';
 
 // The column layout is a lossless re-arrangement of the row layout: decode(encode(rows)) must give
 // the rows back exactly (common practice, no source). The API test in tests/api/study-revision.spec.ts
 // checks the same against the server's own row answer for a real study.
 
+/** Runs with a few fields set the way a sheet has them; the rest empty. */
 function run(i: number, over: Partial<Run> = {}): Run {
-  return {
-    id: 100 + i,
-    code: `R${String(i).padStart(3, '0')}`,
-    standardOrder: 10 - i,
-    runOrder: i,
-    block: i < 2 ? '1' : '2',
-    centrePoint: false,
-    settings: { W: '0.5', A: i % 2 ? '30' : '60' },
-    measured: {},
-    values: {},
-    outcomeId: null,
-    outcomeReason: '',
-    excluded: false,
-    operator: '',
-    testedOn: '',
-    notes: '',
-    attachmentCount: 0,
-    removedAt: null,
-    removedReason: null,
-    version: 1,
-    updatedAt: 1_796_000_000_000 + i,
-    ...over,
-  };
+  return blankRun(100 + i, { code: `R${String(i).padStart(3, '0')}`, standardOrder: 10 - i, runOrder: i, block: i < 2 ? '1' : '2', settings: { W: '0.5', A: i % 2 ? '30' : '60' }, updatedAt: 1_796_000_000_000 + i, ...over });
 }
 
 describe('run-sheet column layout', () => {

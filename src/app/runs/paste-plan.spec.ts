@@ -1,3 +1,4 @@
+import { blankRun } from '../../../shared/testing/blank-run';
 import type { Factor, Outcome, Response, Run } from '../studies/study-types';
 import { parseTsv } from './paste-parser';
 import { planPaste } from './paste-plan';
@@ -9,29 +10,7 @@ const outcomes: Outcome[] = [
   { id: 1, position: 0, label: 'valid', valid: true },
   { id: 2, position: 1, label: 'brittle fracture', valid: false },
 ];
-const run = (id: number, extra: Partial<Run> = {}): Run => ({
-  id,
-  code: `R00${id}`,
-  standardOrder: id,
-  runOrder: id,
-  block: '1',
-  centrePoint: false,
-  settings: { w: '0.3' },
-  measured: {},
-  values: {},
-  outcomeId: null,
-  outcomeReason: '',
-  excluded: false,
-  operator: '',
-  testedOn: '',
-  notes: '',
-  attachmentCount: 0,
-  removedAt: null,
-  removedReason: null,
-  version: 10 + id,
-  updatedAt: 0,
-  ...extra,
-});
+const run = (id: number, extra: Partial<Run> = {}): Run => blankRun(id, { code: `R00${id}`, settings: { w: '0.3' }, version: 10 + id, ...extra });
 
 const specs = cellSpecs([factor], [response('H', 3), response('r', 2)]);
 const runs = new Map([1, 2, 3].map((id) => [id, run(id)]));

@@ -1,3 +1,4 @@
+import { blankRun } from '../../../shared/testing/blank-run';
 import type { Outcome, Response, Run } from '../studies/study-types';
 import { cellChange, cellSpecs } from './run-cells';
 import { cellConflict } from './run-conflict';
@@ -6,28 +7,8 @@ const H: Response = { id: 1, position: 0, name: 'H', symbol: 'H', unit: '', deci
 const outcomes: Outcome[] = [{ id: 1, position: 0, label: 'valid', valid: true }];
 const specs = cellSpecs([], [H]);
 const spec = specs.get('val:H')!;
-const stored = (text: string | null, version: number): Run => ({
-  id: 7,
-  code: 'R007',
-  standardOrder: 7,
-  runOrder: 7,
-  block: '1',
-  centrePoint: false,
-  settings: {},
-  measured: {},
-  values: text === null ? {} : { H: { text, value: Number(text), outOfRange: false } },
-  outcomeId: null,
-  outcomeReason: '',
-  excluded: false,
-  operator: '',
-  testedOn: '',
-  notes: '',
-  attachmentCount: 0,
-  removedAt: null,
-  removedReason: null,
-  version,
-  updatedAt: 0,
-});
+const stored = (text: string | null, version: number): Run =>
+  blankRun(7, { values: text === null ? {} : { H: { text, value: Number(text), outOfRange: false } }, version });
 
 describe('cellConflict (stale per-cell save, HTTP 409)', () => {
   // docs/api-studies.md: a stale version gets 409 and the grid shows the conflict instead of overwriting.
