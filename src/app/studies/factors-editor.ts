@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, effect, inject, signal, untracked } from '@angular/core';
-import { FormArray, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { FormArray, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,12 +7,11 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { factorsBody } from '../../../shared/studies';
-import { ApiError } from '../core/api-error';
-import { Notifier } from '../core/notifier';
-import { applySchema, factorGroup, factorsValue, levelGroup, setupError, type FactorGroup } from './setup-forms';
-import { StudyApi } from './study-api';
-import { StudyStore } from './study-store';
+import type { Observable } from 'rxjs';
+import { factorsBody, type FactorsBody } from '../../../shared/studies';
+import { factorGroup, factorsValue, levelGroup, type FactorGroup } from './setup-forms';
+import { SetupListEditor } from './setup-list-editor';
+import type { StudyDetail } from './study-types';
 
 /** Factors and their levels. Once runs exist the design is fixed: symbols, kinds and level values lock. */
 @Component({
@@ -22,60 +21,36 @@ import { StudyStore } from './study-store';
   templateUrl: './factors-editor.html',
   styleUrl: './setup-editors.scss',
 })
-export class FactorsEditor {
-  protected readonly store = inject(StudyStore);
-  private readonly api = inject(StudyApi);
-  private readonly notifier = inject(Notifier);
-  protected readonly list = new FormArray<FactorGroup>([]);
-  protected readonly root = new FormGroup({ factors: this.list });
-  protected readonly problems = signal<string[]>([]);
-  protected readonly busy = signal(false);
-  /** Set after our own save: the reload must refill this form even though it was edited. */
-  private refillNext = false;
-  protected readonly err = setupError;
-
+export class FactorsEditor extends SetupListEditor<FactorGroup, FactorsBody> {
   constructor() {
-    effect(() => {
-      const s = this.store.study();
-      // Another tab's save reloads the study too; unsaved edits here must survive that.
-      if (!s || (untracked(() => this.root.dirty) && !this.refillNext)) return;
-      this.refillNext = false;
-      untracked(() => this.fill());
-    });
+    super('factors', factorsBody, 'Factors');
   }
 
-  private fill(): void {
-    const s = this.store.study();
-    if (!s) return;
-    this.list.clear();
-    for (const f of s.factors) this.list.push(factorGroup(f));
-    this.applyLocks();
-    this.root.markAsPristine();
+  protected groupsOf(s: StudyDetail): FactorGroup[] {
+    return s.factors.map((f) => factorGroup(f));
+  }
+
+  protected blank(): FactorGroup {
+    return factorGroup();
+  }
+
+  protected bodyOf(list: FormArray<FactorGroup>): FactorsBody {
+    return factorsValue(list);
+  }
+
+  protected put(id: number, body: FactorsBody): Observable<unknown> {
+    return this.api.putFactors(id, body.factors);
   }
 
   /** Viewers get a read-only form; once runs exist, only names, units, labels and tracking stay editable. */
-  private applyLocks(): void {
-    if (!this.store.canEdit()) {
-      this.root.disable();
-      return;
-    }
-    this.root.enable();
-    if (!this.store.hasRuns()) return;
+  protected override applyAccess(): void {
+    super.applyAccess();
+    if (!this.store.canEdit() || !this.store.hasRuns()) return;
     for (const g of this.list.controls) {
       g.controls.symbol.disable();
       g.controls.kind.disable();
       for (const l of g.controls.levels.controls) l.controls.value.disable();
     }
-  }
-
-  protected addFactor(): void {
-    this.list.push(factorGroup());
-    this.root.markAsDirty();
-  }
-
-  protected removeFactor(i: number): void {
-    this.list.removeAt(i);
-    this.root.markAsDirty();
   }
 
   protected addLevel(f: FactorGroup): void {
@@ -86,29 +61,5 @@ export class FactorsEditor {
   protected removeLevel(f: FactorGroup, i: number): void {
     f.controls.levels.removeAt(i);
     this.root.markAsDirty();
-  }
-
-  protected save(): void {
-    const id = this.store.id();
-    this.root.markAllAsTouched();
-    this.problems.set([]);
-    if (id === null || this.list.invalid) return;
-    const body = factorsValue(this.list);
-    const check = applySchema(factorsBody, body, this.root);
-    this.problems.set(check.unplaced);
-    if (!check.ok) return;
-    this.busy.set(true);
-    this.api.putFactors(id, body.factors).subscribe({
-      next: () => {
-        this.busy.set(false);
-        this.refillNext = true;
-        this.notifier.info('Factors saved');
-        this.store.reload();
-      },
-      error: (e: unknown) => {
-        this.busy.set(false);
-        if (e instanceof ApiError) this.problems.set([e.message, ...e.details.map((d) => `${d.path}: ${d.message}`)]);
-      },
-    });
   }
 }

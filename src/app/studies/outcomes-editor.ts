@@ -1,16 +1,15 @@
-import { ChangeDetectionStrategy, Component, effect, inject, signal, untracked } from '@angular/core';
-import { FormArray, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { FormArray, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { outcomesBody } from '../../../shared/studies';
-import { ApiError } from '../core/api-error';
-import { Notifier } from '../core/notifier';
-import { applySchema, outcomeGroup, outcomesValue, setupError, type OutcomeGroup } from './setup-forms';
-import { StudyApi } from './study-api';
-import { StudyStore } from './study-store';
+import type { Observable } from 'rxjs';
+import { outcomesBody, type OutcomesBody } from '../../../shared/studies';
+import { outcomeGroup, outcomesValue, type OutcomeGroup } from './setup-forms';
+import { SetupListEditor } from './setup-list-editor';
+import type { StudyDetail } from './study-types';
 
 /** The validity outcomes a run can end with; "not valid" ones keep the run in the sheet but out of the analysis. */
 @Component({
@@ -54,64 +53,24 @@ import { StudyStore } from './study-store';
   `,
   styleUrl: './setup-editors.scss',
 })
-export class OutcomesEditor {
-  protected readonly store = inject(StudyStore);
-  private readonly api = inject(StudyApi);
-  private readonly notifier = inject(Notifier);
-  protected readonly list = new FormArray<OutcomeGroup>([]);
-  protected readonly root = new FormGroup({ outcomes: this.list });
-  protected readonly problems = signal<string[]>([]);
-  protected readonly busy = signal(false);
-  /** Set after our own save: the reload must refill this form even though it was edited. */
-  private refillNext = false;
-  protected readonly err = setupError;
-
+export class OutcomesEditor extends SetupListEditor<OutcomeGroup, OutcomesBody> {
   constructor() {
-    effect(() => {
-      const s = this.store.study();
-      // Another tab's save reloads the study too; unsaved edits here must survive that.
-      if (!s || (untracked(() => this.root.dirty) && !this.refillNext)) return;
-      this.refillNext = false;
-      untracked(() => {
-        this.list.clear();
-        for (const o of s.outcomes) this.list.push(outcomeGroup(o));
-        if (this.store.canEdit()) this.root.enable();
-        else this.root.disable();
-        this.root.markAsPristine();
-      });
-    });
+    super('outcomes', outcomesBody, 'Outcomes');
   }
 
-  protected add(): void {
-    this.list.push(outcomeGroup());
-    this.root.markAsDirty();
+  protected groupsOf(s: StudyDetail): OutcomeGroup[] {
+    return s.outcomes.map((o) => outcomeGroup(o));
   }
 
-  protected remove(i: number): void {
-    this.list.removeAt(i);
-    this.root.markAsDirty();
+  protected blank(): OutcomeGroup {
+    return outcomeGroup();
   }
 
-  protected save(): void {
-    const id = this.store.id();
-    this.root.markAllAsTouched();
-    if (id === null || this.list.invalid) return;
-    const body = outcomesValue(this.list);
-    const check = applySchema(outcomesBody, body, this.root);
-    this.problems.set(check.unplaced);
-    if (!check.ok) return;
-    this.busy.set(true);
-    this.api.putOutcomes(id, body.outcomes).subscribe({
-      next: () => {
-        this.busy.set(false);
-        this.refillNext = true;
-        this.notifier.info('Outcomes saved');
-        this.store.reload();
-      },
-      error: (e: unknown) => {
-        this.busy.set(false);
-        if (e instanceof ApiError) this.problems.set([e.message]);
-      },
-    });
+  protected bodyOf(list: FormArray<OutcomeGroup>): OutcomesBody {
+    return outcomesValue(list);
+  }
+
+  protected put(id: number, body: OutcomesBody): Observable<unknown> {
+    return this.api.putOutcomes(id, body.outcomes);
   }
 }

@@ -1,18 +1,16 @@
-import { ChangeDetectionStrategy, Component, effect, inject, signal, untracked } from '@angular/core';
-import { FormArray, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { FormArray, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { responsesBody } from '../../../shared/studies';
-import { ApiError } from '../core/api-error';
-import { Notifier } from '../core/notifier';
-import { applySchema, responseGroup, responsesValue, setupError, type ResponseGroup } from './setup-forms';
-import { StudyApi } from './study-api';
-import { StudyStore } from './study-store';
-import type { ResponseGoal } from './study-types';
+import type { Observable } from 'rxjs';
+import { responsesBody, type ResponsesBody } from '../../../shared/studies';
+import { responseGroup, responsesValue, type ResponseGroup } from './setup-forms';
+import { SetupListEditor } from './setup-list-editor';
+import type { ResponseGoal, StudyDetail } from './study-types';
 
 export const GOAL_LABELS: Record<ResponseGoal, string> = {
   nominal: 'Hit a target value',
@@ -109,67 +107,27 @@ export const GOAL_LABELS: Record<ResponseGoal, string> = {
   `,
   styleUrl: './setup-editors.scss',
 })
-export class ResponsesEditor {
-  protected readonly store = inject(StudyStore);
-  private readonly api = inject(StudyApi);
-  private readonly notifier = inject(Notifier);
-  protected readonly list = new FormArray<ResponseGroup>([]);
-  protected readonly root = new FormGroup({ responses: this.list });
-  protected readonly problems = signal<string[]>([]);
-  protected readonly busy = signal(false);
-  /** Set after our own save: the reload must refill this form even though it was edited. */
-  private refillNext = false;
-  protected readonly err = setupError;
+export class ResponsesEditor extends SetupListEditor<ResponseGroup, ResponsesBody> {
   protected readonly goals = Object.keys(GOAL_LABELS) as ResponseGoal[];
   protected readonly goalLabels = GOAL_LABELS;
 
   constructor() {
-    effect(() => {
-      const s = this.store.study();
-      // Another tab's save reloads the study too; unsaved edits here must survive that.
-      if (!s || (untracked(() => this.root.dirty) && !this.refillNext)) return;
-      this.refillNext = false;
-      untracked(() => {
-        this.list.clear();
-        for (const r of s.responses) this.list.push(responseGroup(r));
-        if (this.store.canEdit()) this.root.enable();
-        else this.root.disable();
-        this.root.markAsPristine();
-      });
-    });
+    super('responses', responsesBody, 'Responses');
   }
 
-  protected add(): void {
-    this.list.push(responseGroup());
-    this.root.markAsDirty();
+  protected groupsOf(s: StudyDetail): ResponseGroup[] {
+    return s.responses.map((r) => responseGroup(r));
   }
 
-  protected remove(i: number): void {
-    this.list.removeAt(i);
-    this.root.markAsDirty();
+  protected blank(): ResponseGroup {
+    return responseGroup();
   }
 
-  protected save(): void {
-    const id = this.store.id();
-    this.root.markAllAsTouched();
-    this.problems.set([]);
-    if (id === null || this.list.invalid) return;
-    const body = responsesValue(this.list);
-    const check = applySchema(responsesBody, body, this.root);
-    this.problems.set(check.unplaced);
-    if (!check.ok) return;
-    this.busy.set(true);
-    this.api.putResponses(id, body.responses).subscribe({
-      next: () => {
-        this.busy.set(false);
-        this.refillNext = true;
-        this.notifier.info('Responses saved');
-        this.store.reload();
-      },
-      error: (e: unknown) => {
-        this.busy.set(false);
-        if (e instanceof ApiError) this.problems.set([e.message]);
-      },
-    });
+  protected bodyOf(list: FormArray<ResponseGroup>): ResponsesBody {
+    return responsesValue(list);
+  }
+
+  protected put(id: number, body: ResponsesBody): Observable<unknown> {
+    return this.api.putResponses(id, body.responses);
   }
 }
