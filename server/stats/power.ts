@@ -20,6 +20,15 @@
  * For interaction terms a single "difference between level means" does not define the effect
  * pattern; they need Cohen's f, and otherwise get `power: null` with a note.
  *
+ * Two-level fractions 2^(k-p) (`fraction: p`): N = r 2^(k-p) runs, every term has 1 df and the caller
+ * lists the model terms — the ones the fraction estimates apart from each other (for a model of main
+ * effects and two-factor interactions: designs/fractional-factorial.ts clearEffects). The columns of a
+ * regular fraction are orthogonal and balanced (N/2 runs at each sign), so λ = N f² holds as for the
+ * full factorial, and Δ keeps its meaning: the difference between the means at the factor's two levels
+ * (the factor's "effect" in the two-level sense), f = Δ/(2σ), λ = N Δ²/(4σ²) (Montgomery, Design and
+ * Analysis of Experiments, ch. 6-8, from memory). A term's test is the test of the term together with
+ * its aliases.
+ *
  * Caution: power is only as good as the guessed σ and effect; it plans a study, it does not
  * replace engineering judgement or a test standard's own sample-size rules.
  */
@@ -33,7 +42,7 @@ export interface PlannedFactor {
   levels: number;
 }
 
-/** A planned full factorial. */
+/** A planned full factorial, or a two-level 2^(k-p) fraction of one. */
 export interface PowerPlan {
   factors: PlannedFactor[];
   /** replicates of the whole factorial (>= 1) */
@@ -44,6 +53,12 @@ export interface PowerPlan {
   terms?: string[][];
   /** significance level, default 0.05 */
   alpha?: number;
+  /**
+   * p of a two-level fraction 2^(k-p) (0 = the full factorial): each replicate has 2^(k-p) runs. Needs
+   * two levels per factor and explicit `terms` that the fraction estimates apart from each other —
+   * this function cannot see the generators, so choosing them is the caller's job.
+   */
+  fraction?: number;
 }
 
 /** The effect to detect: Cohen's f, or the smallest difference Δ between level means with expected σ. */
@@ -131,6 +146,14 @@ function checkPlan(plan: PowerPlan): void {
   if (!Number.isInteger(plan.replicates) || plan.replicates < 1) {
     throw new StatsInputError(`replicates must be an integer >= 1, got ${plan.replicates}`, plan.replicates);
   }
+  const p = plan.fraction;
+  if (p !== undefined) {
+    const k = plan.factors.length;
+    if (!Number.isInteger(p) || p < 0 || (p > 0 && p > k - 2)) throw new StatsInputError(`a 2^(${k}-p) fraction needs an integer p from 0 to ${Math.max(0, k - 2)}, got ${p}`, p);
+    const multi = plan.factors.find((f) => f.levels !== 2);
+    if (multi) throw new StatsInputError(`factor "${multi.name}" has ${multi.levels} levels; a 2^(k-p) fraction needs exactly 2`, multi.name);
+    if (p > 0 && plan.terms === undefined) throw new StatsInputError('a fraction needs its model terms listed (the effects it estimates apart from each other)', p);
+  }
   const b = plan.blocks;
   if (typeof b === 'number' && (!Number.isInteger(b) || b < 1 || plan.replicates % b !== 0)) {
     throw new StatsInputError(`blocks must be a whole number dividing the ${plan.replicates} replicates, got ${b}`, b);
@@ -138,8 +161,8 @@ function checkPlan(plan: PowerPlan): void {
 }
 
 /**
- * Power of the F test of each model term of a planned full factorial.
- * @param plan factors with level counts, replicates, blocks, model terms, alpha
+ * Power of the F test of each model term of a planned full factorial or 2^(k-p) fraction.
+ * @param plan factors with level counts, replicates, blocks, model terms, alpha, fraction p
  * @param effect Cohen's f (applied to every term) or Δ with σ (main effects only)
  * @returns one row per term with df, error df, f, λ, critical F and power
  * @throws StatsInputError for bad plans, or when the model leaves no error degrees of freedom
@@ -152,7 +175,7 @@ export function factorialPower(plan: PowerPlan, effect: PlannedEffect): TermPowe
   checkAlpha(alpha);
   const terms = resolveTerms(plan);
   const levelsOf = new Map(plan.factors.map((f) => [f.name, f.levels]));
-  const cells = plan.factors.reduce((p, f) => p * f.levels, 1);
+  const cells = plan.factors.reduce((p, f) => p * f.levels, 1) / 2 ** (plan.fraction ?? 0);
   const n = cells * plan.replicates;
   const blocks = plan.blocks === 'perReplicate' ? plan.replicates : (plan.blocks ?? 1);
   const dfOf = (term: string[]): number => term.reduce((p, name) => p * ((levelsOf.get(name) as number) - 1), 1);
@@ -160,7 +183,7 @@ export function factorialPower(plan: PowerPlan, effect: PlannedEffect): TermPowe
   const dfError = n - 1 - (blocks - 1) - dfModel;
   if (dfError < 1) {
     throw new StatsInputError(
-      `the plan leaves ${dfError} error degrees of freedom (${n} runs, ${blocks} blocks, ${dfModel} model df): add replicates or drop high-order interactions`,
+      `the plan leaves ${dfError} error degrees of freedom (${n} runs, ${blocks} blocks, ${dfModel} model df): add replicates or drop ${plan.fraction ? 'model terms' : 'high-order interactions'}`,
       dfError,
     );
   }

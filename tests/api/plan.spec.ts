@@ -88,11 +88,44 @@ describe('plan preview and commit', () => {
     expect(p.aliases.find((a: { effect: string }) => a.effect === 'AB').aliases).toEqual(['CD']);
   });
 
+  it('commits a 2^3 full factorial with centre points per block and shows them in the run sheet', async () => {
+    const id = await study(twoLevel(3));
+    const res = await engineer.post(`/api/studies/${id}/plan`, { design: 'full', replicates: 2, blocks: 'perReplicate', centrePoints: 3, seed: 21 });
+    expect(res.status).toBe(201);
+    // 2^3 x 2 replicates + 3 centre points in each of 2 blocks = 22 runs (Montgomery, Design and
+    // Analysis of Experiments, §6.8, from memory); the centre of 1.0 and 2.0 is 1.5 (arithmetic)
+    expect(res.body.runCount).toBe(22);
+    const sheet = (await supervisor.get(`/api/studies/${id}/runs`)).body.runs as { code: string; block: string; centrePoint: boolean; standardOrder: number; runOrder: number; settings: Record<string, string> }[];
+    expect(sheet).toHaveLength(22);
+    const centres = sheet.filter((r) => r.centrePoint);
+    expect(centres.map((r) => r.settings)).toEqual(Array(6).fill({ f0: '1.5', f1: '1.5', f2: '1.5' }));
+    expect(centres.filter((r) => r.block === 'Block 1')).toHaveLength(3);
+    expect(centres.filter((r) => r.block === 'Block 2')).toHaveLength(3);
+    expect(centres.map((r) => r.standardOrder).sort((a, b) => a - b)).toEqual([17, 18, 19, 20, 21, 22]);
+    expect(sheet.filter((r) => !r.centrePoint).every((r) => /^[12]\.0$/.test(r.settings.f0))).toBe(true);
+    expect((await engineer.get(`/api/studies/${id}`)).body.study.plan.spec).toMatchObject({ design: 'full', centrePoints: 3 });
+  });
+
+  it('previews power for a fraction from its main effects and clear interactions', async () => {
+    const id = await study(twoLevel(4));
+    const body = { design: 'fractional', replicates: 2, fraction: { p: 1 }, seed: 5, power: { effect: { kind: 'cohenF', f: 0.5 }, alpha: 0.05, targetPower: 0.8 } };
+    const p = (await engineer.post(`/api/studies/${id}/plan/preview`, body)).body.preview;
+    // 2^(4-1), I = ABCD: 4 main effects + AB = CD, AC = BD, AD = BC; error 16 - 1 - 7 = 8 (BHH 2005, ch. 6)
+    expect(p.power.map((t: { term: string; dfError: number }) => [t.term, t.dfError])).toEqual([['f0', 8], ['f1', 8], ['f2', 8], ['f3', 8], ['f0:f1', 8], ['f0:f2', 8], ['f0:f3', 8]]);
+    expect(p.replicatesForTarget).toBeGreaterThan(2);
+    expect(p.notes.join(' ')).toMatch(/clear of them \(f0:f1 = f2:f3/);
+  });
+
   it('refuses impossible plans with a message and viewers', async () => {
     const id = await study();
     const centre = await engineer.post(`/api/studies/${id}/plan/preview`, { design: 'full', replicates: 1, centrePoints: 2 });
     expect(centre.status).toBe(400);
-    expect(centre.body.message).toMatch(/centre points are added to two-level fractional plans/);
+    expect(centre.body.message).toMatch(/centre points only when every factor is numeric with exactly two levels.*factor "B" is categorical/);
+    expect(centre.body.details[0]).toMatchObject({ path: 'centrePoints' });
+    const three = await study({ factors: [twoLevel(1).factors[0]!, { ...twoLevel(2).factors[1]!, levels: [{ value: '1' }, { value: '2' }, { value: '3' }] }] });
+    const threeLevel = await engineer.post(`/api/studies/${three}/plan/preview`, { design: 'full', replicates: 2, centrePoints: 2 });
+    expect(threeLevel.status).toBe(400);
+    expect(threeLevel.body.message).toMatch(/factor "f1" has 3 levels; give its middle value as a level instead/);
     const frac = await engineer.post(`/api/studies/${id}/plan/preview`, { design: 'fractional', replicates: 1, fraction: { p: 1 } });
     expect(frac.body.message).toMatch(/Factor "B" has 3 levels/);
     const blocks = await engineer.post(`/api/studies/${id}/plan/preview`, { design: 'full', replicates: 3, blocks: 2 });

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { StatsInputError } from '../errors.js';
-import { definingWords, fractionalFactorial, LETTERS, parseGenerator, wordLengths, type TwoLevelFactor } from './fractional-factorial.js';
+import { clearEffects, definingWords, fractionalFactorial, LETTERS, parseGenerator, wordLengths, type TwoLevelFactor } from './fractional-factorial.js';
+import { fullFactorial } from './full-factorial.js';
 import { STANDARD_GENERATORS } from './generator-table.js';
 import { minimumAberration, searchSize } from './minimum-aberration.js';
 
@@ -118,5 +119,80 @@ describe('fractionalFactorial', () => {
     expect(() => fractionalFactorial({ factors: cat, generators: ['D=ABC'], centrePoints: 1, seed: 1 })).toThrow(/"coating" is categorical/);
     expect(() => fractionalFactorial({ factors: numeric(5), fraction: 4, seed: 1 })).toThrow(StatsInputError);
     expect(LETTERS).not.toContain('I');
+  });
+});
+
+describe('fractionalFactorial with p = 0 (the full 2^k)', () => {
+  it('gives the full 2^3 in Yates order with nothing aliased', () => {
+    // Yates standard order (-,-,-), (+,-,-), (-,+,-), (+,+,-), ... (Box, Hunter & Hunter 2005, ch. 5)
+    const d = fractionalFactorial({ factors: numeric(3), generators: [], seed: 1, randomise: false });
+    expect(d.runs.map((r) => [r.levels.x1, r.levels.x2, r.levels.x3])).toEqual([
+      [0, 10, 20], [4, 10, 20], [0, 14, 20], [4, 14, 20], [0, 10, 24], [4, 10, 24], [0, 14, 24], [4, 14, 24],
+    ]);
+    expect(d).toMatchObject({ p: 0, definingRelation: 'I', resolution: Infinity, wordLengthPattern: [0, 0, 0] });
+    expect(d.aliases.every((a) => a.aliases.length === 0)).toBe(true);
+    expect(fractionalFactorial({ factors: numeric(3), fraction: 0, seed: 1 }).runs).toHaveLength(8);
+  });
+
+  it('keeps the full-factorial run order for the same seed, so adding centre points only adds runs', () => {
+    // same standard order (first factor fastest) and the same seeded shuffle as full-factorial.ts
+    const viaFraction = fractionalFactorial({ factors: numeric(3), generators: [], replicates: 2, blocks: 'perReplicate', seed: 9 }).runs;
+    const full = fullFactorial({ factors: numeric(3), replicates: 2, blocks: 'perReplicate', seed: 9 });
+    expect(viaFraction).toEqual(full);
+  });
+
+  it('adds centre points at the midpoints after the factorial runs, per block, randomised within the block', () => {
+    // 2^3 x 2 replicates blocked per replicate + 3 centre points per block (Montgomery, Design and
+    // Analysis of Experiments, §6.8, from memory): 16 + 2 x 3 = 22 runs
+    const d = fractionalFactorial({ factors: numeric(3), generators: [], replicates: 2, blocks: 'perReplicate', centrePoints: 3, seed: 5 });
+    expect(d.runs).toHaveLength(22);
+    const centres = d.runs.filter((r) => r.centre);
+    expect(centres.map((r) => r.levels)).toEqual(Array(6).fill({ x1: 2, x2: 12, x3: 22 }));
+    expect(centres.map((r) => r.standardOrder).sort((a, b) => a - b)).toEqual([17, 18, 19, 20, 21, 22]);
+    for (const b of ['Block 1', 'Block 2']) expect(centres.filter((r) => r.block === b)).toHaveLength(3);
+    // block 1 holds run orders 1..11, block 2 12..22; centre runs are shuffled in, not appended
+    expect(d.runs.filter((r) => r.block === 'Block 1').map((r) => r.runOrder)).toEqual([...Array(11).keys()].map((i) => i + 1));
+    expect(d.runs.filter((r) => r.block === 'Block 1').slice(-3).every((r) => r.centre)).toBe(false);
+    // unrandomised, each block ends with its centre runs (standard order after the factorial runs)
+    const fixed = fractionalFactorial({ factors: numeric(3), generators: [], replicates: 2, blocks: 'perReplicate', centrePoints: 3, seed: 5, randomise: false });
+    expect(fixed.runs.map((r) => (r.centre ? 'c' : 'f')).join('')).toBe('ffffffffcccffffffffccc');
+    // without blocks: centre points in total
+    expect(fractionalFactorial({ factors: numeric(3), generators: [], replicates: 2, centrePoints: 3, seed: 5 }).runs.filter((r) => r.centre)).toHaveLength(3);
+  });
+
+  it('takes one or two factors for p = 0 but not for a fraction', () => {
+    expect(fractionalFactorial({ factors: numeric(1), generators: [], centrePoints: 2, seed: 1 }).runs).toHaveLength(4);
+    expect(fractionalFactorial({ factors: numeric(2), fraction: 0, seed: 1 }).runs).toHaveLength(4);
+    expect(() => fractionalFactorial({ factors: numeric(2), generators: ['C=AB'], seed: 1 })).toThrow(/at least 3 factors, got 2/);
+    expect(() => fractionalFactorial({ factors: numeric(4), fraction: -1, seed: 1 })).toThrow(/p >= 0/);
+  });
+});
+
+describe('clearEffects', () => {
+  const clear = (k: number, generators: string[]) => clearEffects(fractionalFactorial({ factors: numeric(k), generators, seed: 1 }).aliases);
+
+  it('keeps the interactions of a resolution IV half fraction once per alias chain', () => {
+    // 2^(4-1), I = ABCD: AB = CD, AC = BD, AD = BC (Box, Hunter & Hunter 2005, ch. 6)
+    expect(clear(4, ['D=ABC']).map((e) => [e.effect, e.aliases])).toEqual([
+      ['A', []], ['B', []], ['C', []], ['D', []], ['AB', ['CD']], ['AC', ['BD']], ['AD', ['BC']],
+    ]);
+  });
+
+  it('drops interactions aliased with main effects and keeps the clear ones of a resolution III design', () => {
+    // 2^(5-2), D = AB, E = AC: A = BD = CE, B = AD, C = AE, D = AB, E = AC, BC = DE, BE = CD
+    // (Montgomery, Design and Analysis of Experiments, the 2^(5-2) example, from memory)
+    const e = clear(5, ['D=AB', 'E=AC']);
+    expect(e.map((x) => x.effect)).toEqual(['A', 'B', 'C', 'D', 'E', 'BC', 'BE']);
+    expect([...(e[0].aliases)].sort()).toEqual(['BD', 'CE']);
+    expect(e.find((x) => x.effect === 'BC')?.aliases).toEqual(['DE']);
+    expect(e.find((x) => x.effect === 'BE')?.aliases).toEqual(['CD']);
+    // 2^(3-1), C = AB: A = BC, B = AC, C = AB, so main effects only (BHH 2005, ch. 6)
+    expect(clear(3, ['C=AB']).map((x) => x.effect)).toEqual(['A', 'B', 'C']);
+  });
+
+  it('keeps every interaction when no two-factor alias exists', () => {
+    // resolution V (2^(5-1), I = ABCDE) and the full 2^3: 5 + 10 and 3 + 3 effects (arithmetic)
+    expect(clear(5, ['E=ABCD'])).toHaveLength(15);
+    expect(clear(3, []).map((x) => x.effect)).toEqual(['A', 'B', 'C', 'AB', 'AC', 'BC']);
   });
 });

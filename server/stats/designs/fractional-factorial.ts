@@ -3,7 +3,8 @@
  * "E=-ABCD" for the other half) given by the user or taken from the standard table
  * (generator-table.ts), with the defining relation, resolution, word-length pattern and alias
  * structure of main effects and two-factor interactions; optional centre points for numeric
- * factors.
+ * factors. p = 0 (no generators) gives the full 2^k, so that a full two-level factorial gets its
+ * centre points from the same code as a fraction.
  *
  * Algebra (Box, Hunter & Hunter 2005, ch. 6): a word is a set of letters, stored as a bit mask;
  * multiplying words is symmetric difference (A·A = I), i.e. XOR of masks, and signs multiply.
@@ -26,8 +27,9 @@ export interface TwoLevelFactor {
 
 export interface FractionalOptions {
   factors: TwoLevelFactor[];
-  /** generators like "E=ABCD"; when omitted, `fraction` (p) picks the standard ones */
+  /** generators like "E=ABCD" ([] for the full 2^k); when omitted, `fraction` (p) picks the standard ones */
   generators?: string[];
+  /** p; 0 is the full 2^k */
   fraction?: number;
   replicates?: number;
   blocks?: 'perReplicate' | string[];
@@ -47,8 +49,9 @@ export interface FractionalDesign {
   p: number;
   letters: { letter: string; factor: string }[];
   generators: string[];
-  /** "I = ABCE = ..." (every word of the defining contrast subgroup, with sign) */
+  /** "I = ABCE = ..." (every word of the defining contrast subgroup, with sign); "I" for p = 0 */
   definingRelation: string;
+  /** length of the shortest defining word; Infinity for p = 0 (no defining word: nothing is aliased) */
   resolution: number;
   /** counts of defining words of length 1, 2, ..., k (index 0 = length 1) */
   wordLengthPattern: number[];
@@ -112,34 +115,37 @@ export function definingWords(words: Word[]): Word[] {
 export function wordLengths(words: Word[], k: number): { resolution: number; wordLengthPattern: number[] } {
   const pattern = new Array<number>(k).fill(0);
   for (const w of words) pattern[popcount(w.mask) - 1]++;
-  const resolution = Math.min(...words.map((w) => popcount(w.mask)));
+  // No word (the full 2^k): no effect is aliased with another, which is resolution "infinite".
+  const resolution = words.length === 0 ? Infinity : Math.min(...words.map((w) => popcount(w.mask)));
   return { resolution, wordLengthPattern: pattern };
 }
 
 function resolveGenerators(opts: FractionalOptions, k: number): string[] {
   if (opts.generators !== undefined) return opts.generators;
   const p = opts.fraction;
-  if (!Number.isInteger(p) || (p as number) < 1) throw new StatsInputError(`give generators or a fraction p >= 1, got ${p}`, p);
+  if (!Number.isInteger(p) || (p as number) < 0) throw new StatsInputError(`give generators or a fraction p >= 0 (0 is the full 2^k), got ${p}`, p);
+  if (p === 0) return [];
   const entry = STANDARD_GENERATORS.find((e) => e.k === k && e.p === p);
   if (!entry) throw new StatsInputError(`no standard 2^(${k}-${p}) design in the table; give generators`, p);
   return entry.generators;
 }
 
 /**
- * Two-level fractional factorial design from generators.
+ * Two-level fractional factorial design from generators; no generators (or fraction 0) gives the full 2^k.
  * @throws StatsInputError for k > 11, non-two-level factors, unknown letters, repeated or dependent generators,
- *   centre points with a categorical factor
+ *   a fraction of fewer than 3 factors, centre points with a categorical factor
  * @example fractionalFactorial({factors: five, generators: ['E=ABCD'], seed: 1}).resolution // 5
+ * @example fractionalFactorial({factors: three, generators: [], centrePoints: 3, seed: 1}).runs.length // 8 + 3
  */
 export function fractionalFactorial(opts: FractionalOptions): FractionalDesign {
   checkFactors(opts.factors);
   const k = opts.factors.length;
-  if (k > LETTERS.length) throw new StatsInputError(`two-level fractional designs support at most 11 factors, got ${k}`, k);
-  if (k < 3) throw new StatsInputError(`a fractional factorial needs at least 3 factors, got ${k}`, k);
+  if (k > LETTERS.length) throw new StatsInputError(`two-level designs from generators (fractions, or a full 2^k with centre points) support at most 11 factors, got ${k}`, k);
   for (const f of opts.factors) {
     if (f.levels.length !== 2) throw new StatsInputError(`factor "${f.name}" must have exactly 2 levels, got ${f.levels.length}`, f.name);
   }
   const generators = resolveGenerators(opts, k);
+  if (generators.length > 0 && k < 3) throw new StatsInputError(`a fractional factorial needs at least 3 factors, got ${k}`, k);
   const parsed = generators.map((g) => parseGenerator(g, k));
   const generated = new Set<number>();
   for (const [i, g] of parsed.entries()) {
@@ -153,7 +159,7 @@ export function fractionalFactorial(opts: FractionalOptions): FractionalDesign {
     }
   }
   const p = parsed.length;
-  if (p < 1 || p > k - 2) throw new StatsInputError(`a 2^(${k}-p) design needs 1 <= p <= ${k - 2} generators, got ${p}`, p);
+  if (p > 0 && p > k - 2) throw new StatsInputError(`a 2^(${k}-p) design needs 1 <= p <= ${k - 2} generators, got ${p}`, p);
   const words = definingWords(parsed.map((g) => g.word));
   const base = [...Array(k).keys()].filter((i) => !generated.has(i));
   parsed.forEach((g, i) => {
@@ -170,6 +176,28 @@ export function fractionalFactorial(opts: FractionalOptions): FractionalDesign {
     letters: opts.factors.map((f, i) => ({ letter: LETTERS[i], factor: f.name })),
     generators, definingRelation: definingRelation.join(' = '), resolution, wordLengthPattern, aliases, runs,
   };
+}
+
+/**
+ * The effects a 2^(k-p) design estimates apart from each other in a model of main effects and
+ * two-factor interactions: every main effect, then (in the order AB, AC, ..., BC, ...) each two-factor
+ * interaction none of whose aliases of order <= 2 is a main effect or an interaction already taken.
+ * Each one is estimated together with its aliases (Box, Hunter & Hunter 2005, ch. 6); it is the same
+ * set a least-squares fit keeps when it sets aside, in this order, every column aliased with the
+ * columns before it (linear-model.ts). Effects aliased only with interactions of order >= 3 count as
+ * clear (those interactions are assumed negligible).
+ * @example clearEffects(fractionalFactorial({factors: four, generators: ['D=ABC'], seed: 1}).aliases).length // 7: A, B, C, D, AB, AC, AD
+ */
+export function clearEffects(aliases: FractionalDesign['aliases']): FractionalDesign['aliases'] {
+  const taken = new Set<string>();
+  const out: FractionalDesign['aliases'] = [];
+  for (const a of aliases) {
+    const partners = a.aliases.map((x) => x.replace(/^-/, ''));
+    if (a.effect.length === 2 && partners.some((x) => x.length === 1 || taken.has(x))) continue;
+    taken.add(a.effect);
+    out.push(a);
+  }
+  return out;
 }
 
 function aliasStructure(words: Word[], k: number): { effect: string; aliases: string[] }[] {

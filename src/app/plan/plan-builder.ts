@@ -54,13 +54,15 @@ export class PlanBuilder {
   private readonly value = toSignal(this.form.valueChanges.pipe(debounceTime(300), map(() => this.form.getRawValue())), {
     initialValue: this.form.getRawValue(),
   });
-  protected readonly check = computed(() => toPlanBody(this.value()));
+  protected readonly check = computed(() => toPlanBody(this.value(), this.centreOnFull()));
   protected readonly generalErrors = computed(() => {
     const c = this.check();
     return c.ok ? [] : c.general;
   });
   protected readonly factors = computed(() => this.store.study()?.factors ?? []);
   protected readonly twoLevelOnly = computed(() => this.factors().every((f) => f.levels.length === 2));
+  /** A full factorial takes centre points when every factor is numeric at two levels (the centre is their midpoint). */
+  protected readonly centreOnFull = computed(() => this.factors().length > 0 && this.factors().every((f) => f.kind === 'numeric' && f.levels.length === 2));
 
   protected readonly preview = rxResource({
     params: () => {
@@ -127,7 +129,7 @@ export class PlanBuilder {
   }
 
   private send(id: number): void {
-    const c = toPlanBody(this.form.getRawValue());
+    const c = toPlanBody(this.form.getRawValue(), this.centreOnFull());
     if (!c.ok) return;
     this.busy.set(true);
     this.api.commitPlan(id, c.body).subscribe({

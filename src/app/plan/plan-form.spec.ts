@@ -18,6 +18,15 @@ describe('plan form to planBody', () => {
     expect(c.ok && c.body.centrePoints).toBe(3);
   });
 
+  it('sends centre points with a full factorial only when the factors allow them', () => {
+    const form = planForm();
+    form.patchValue({ design: 'full', centrePoints: 3, effect: 'none' });
+    const allowed = toPlanBody(form.getRawValue(), true);
+    expect(allowed.ok && allowed.body.centrePoints).toBe(3);
+    const notAllowed = toPlanBody(form.getRawValue());
+    expect(notAllowed.ok && notAllowed.body.centrePoints).toBe(0);
+  });
+
   it('says which blocks do not divide the replicates, on the block-count field', () => {
     const form = planForm();
     form.patchValue({ replicates: 3, blocks: 'count', blockCount: 2, effect: 'none' });

@@ -54,7 +54,12 @@ function decimal(raw: string, field: keyof PlanValue, errors: Partial<Record<key
   return Number(t);
 }
 
-export function toPlanBody(v: PlanValue): PlanCheck {
+/**
+ * @param centreOnFull whether the study's factors let a full factorial take centre points (every factor
+ *   numeric with exactly two levels); otherwise a full factorial sends 0 centre points, as a fraction's
+ *   value left in the hidden field must not travel with it.
+ */
+export function toPlanBody(v: PlanValue, centreOnFull = false): PlanCheck {
   const errors: Partial<Record<keyof PlanValue, string>> = {};
   const generators = v.generators
     .split(/[,;\s]+/)
@@ -80,7 +85,7 @@ export function toPlanBody(v: PlanValue): PlanCheck {
     design: v.design,
     replicates: v.replicates,
     blocks: v.blocks === 'count' ? v.blockCount : v.blocks,
-    centrePoints: v.design === 'fractional' ? v.centrePoints : 0,
+    centrePoints: v.design === 'fractional' || centreOnFull ? v.centrePoints : 0,
     seed: v.seed,
     randomise: v.randomise,
     ...(v.design === 'fractional' ? { fraction: { p: v.p, ...(generators.length ? { generators } : {}) } } : {}),
