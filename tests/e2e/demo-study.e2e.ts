@@ -46,4 +46,23 @@ describe('the demo study, analysed', () => {
     await page.getByTestId('caution').first().waitFor();
     await screenshot(page, 'demo-study-analysis');
   });
+
+  it('revalidates the run sheet on a later visit instead of downloading it again (If-None-Match)', async () => {
+    // RFC 9111 §4.3.1 / RFC 9110 §13.1.2: a stored response with an ETag is revalidated with
+    // If-None-Match; the server's answer is `private, no-cache` + weak ETag (docs/api-studies.md).
+    const page = b.page;
+    const asked: (string | undefined)[] = [];
+    const listen = (r: import('playwright-core').Request) => {
+      if (/\/api\/studies\/\d+\/runs\?/.test(r.url())) void r.allHeaders().then((h) => asked.push(h['if-none-match']));
+    };
+    page.on('request', listen);
+    await page.locator('[data-tab=runs]').click();
+    await page.locator('ag-grid-angular [role=row][row-index="0"]').first().waitFor();
+    await page.locator('[data-tab=plan]').click();
+    await page.locator('[data-tab=runs]').click();
+    await page.locator('ag-grid-angular [role=row][row-index="0"]').first().waitFor();
+    await expect.poll(() => asked.length).toBeGreaterThanOrEqual(2);
+    page.off('request', listen);
+    expect(asked.at(-1)).toMatch(/^W\/".+"$/);
+  });
 });
