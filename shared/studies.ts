@@ -200,3 +200,11 @@ export const DEFAULT_OUTCOMES: { label: string; valid: boolean }[] = [
  * decimal mark ("1,5") is refused rather than guessed, since "1,500" is ambiguous.
  */
 export const DECIMAL_RE = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+
+/** An approved study's sign-off: which analysis, when, and whether the data it froze have changed since. */
+export interface ApprovalState {
+  analysisId: number;
+  approvedAt: number;
+  /** today's data under that analysis's selection no longer hash to what was approved */
+  dataChanged: boolean;
+}

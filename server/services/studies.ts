@@ -12,6 +12,7 @@ import type { StudyRole } from '../../shared/roles.js';
 import type { Db } from '../db/client.js';
 import { outcomes, studies, studyMembers, users } from '../db/schema.js';
 import { conflict, HttpError, notFound } from '../http-error.js';
+import { approvalStates } from './approval-state.js';
 import { audit, type DbOrTx } from './audit.js';
 import { by, type Actor } from './actor.js';
 import { listMembers } from './study-members.js';
@@ -100,11 +101,13 @@ export function listStudies(db: Db, viewer: { id: number; isAdmin: boolean }, q:
     specimenFamily: string; createdAt: number; updatedAt: number; ownerId: number; ownerName: string; memberRole: StudyRole | null;
   }[];
   const progress = progressOf(db, rows.map((r) => r.id));
+  const approvals = approvalStates(db, rows.filter((r) => r.status === 'approved').map((r) => r.id));
   return rows.map(({ ownerId, ownerName, memberRole, ...r }) => ({
     ...r,
     owner: { id: ownerId, name: ownerName },
     myRole: (memberRole ?? 'admin') as ViewerRole,
     progress: progress.get(r.id) ?? { planned: 0, recorded: 0, invalid: 0, removed: 0 },
+    approval: approvals.get(r.id) ?? null,
   }));
 }
 
@@ -123,6 +126,7 @@ export function getStudyDetail(db: Db, id: number, viewerRole: ViewerRole) {
     myRole: viewerRole,
     allowedTransitions: allowed,
     progress: progressOf(db, [id]).get(id) ?? { planned: 0, recorded: 0, invalid: 0, removed: 0 },
+    approval: s.status === 'approved' ? (approvalStates(db, [id]).get(id) ?? null) : null,
     ...setup,
     members: listMembers(db, id),
     plan: currentPlan(db, id),

@@ -146,7 +146,9 @@ describe('review, comments and sign-off of one analysis', () => {
     const res = await c.supervisor.post(`/api/analyses/${aid}/approve`, { note: 'checked' });
     expect(res.status).toBe(200);
     expect(res.body.analysis).toMatchObject({ status: 'approved', stale: false, approvedBy: { id: ids.supervisor } });
-    expect((await c.engineer.get(`/api/studies/${studyId}`)).body.study.status).toBe('approved');
+    const approved = (await c.engineer.get(`/api/studies/${studyId}`)).body.study;
+    expect(approved.status).toBe('approved');
+    expect(approved.approval).toMatchObject({ analysisId: aid, dataChanged: false });
     expect(auditActions(aid)).toContain('approve');
     const again = await c.supervisor.post(`/api/analyses/${aid}/approve`, {});
     expect(again.status).toBe(409);
@@ -168,9 +170,14 @@ describe('review, comments and sign-off of one analysis', () => {
   });
 
   it('editing a run after approval makes the approved analysis stale; approval and recommendation are then refused', async () => {
+    const listed = async () => ((await c.viewer.get('/api/studies')).body.studies as { id: number; approval: unknown }[]).find((s) => s.id === studyId)!.approval;
+    expect(await listed()).toMatchObject({ analysisId: aid, dataChanged: false });
     await editRun(runIds[2]!, '55'); // warpbreaks row 3 is 54 (R datasets, warpbreaks.json)
     const view = await c.supervisor.get(`/api/analyses/${aid}`);
     expect(view.body.analysis).toMatchObject({ status: 'approved', stale: true });
+    // the study says so too, in its header and in the list (common practice, no source)
+    expect((await c.viewer.get(`/api/studies/${studyId}`)).body.study.approval).toMatchObject({ analysisId: aid, dataChanged: true });
+    expect(await listed()).toMatchObject({ analysisId: aid, dataChanged: true });
     expect(view.body.analysis.changes.edited).toEqual([{ runId: runIds[2], code: 'R0003', field: 'value', oldValue: '54', newValue: '55' }]);
     expect((await c.supervisor.post(`/api/analyses/${aid}/approve`, {})).status).toBe(409);
     const rec = await c.engineer.put(`/api/studies/${studyId}/recommendation`, { analysisId: aid, settings: [{ factor: 'T', level: 'H' }], rationale: 'Lowest breaks at high tension.' });

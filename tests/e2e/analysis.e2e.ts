@@ -212,6 +212,11 @@ describe('analysis, review and sign-off', () => {
     await banner.waitFor();
     expect(await banner.textContent()).toContain(run.code);
     expect(await page.getByTestId('stale-chip').count()).toBe(1);
+    // the study header and the studies list say it too, wherever the study is shown as approved
+    expect(await page.getByTestId('changed-since-approval').textContent()).toContain('Data changed since approval');
     await screenshot(page, 'analysis-stale');
+    await page.goto('/studies');
+    await page.getByTestId('changed-since-approval').first().waitFor();
+    await screenshot(page, 'studies-changed-since-approval');
   });
 });

@@ -37,6 +37,11 @@ const TABS = [
               @if (s.progress.invalid > 0) {
                 <span class="invalid">{{ s.progress.invalid }} invalid (excluded from analysis)</span>
               }
+              @if (s.approval?.dataChanged) {
+                <a class="changed" data-testid="changed-since-approval" [routerLink]="['analyses', s.approval!.analysisId]" title="The signed-off analysis no longer matches the run sheet: open it to see what changed">
+                  <mat-icon inline>warning</mat-icon> Data changed since approval
+                </a>
+              }
               <span>Your role: {{ s.myRole }}</span>
               @if (!store.canEdit()) {
                 <span class="readonly"><mat-icon inline>visibility</mat-icon> Read only</span>
@@ -79,7 +84,8 @@ const TABS = [
       margin: 8px 0 0;
       color: var(--mat-sys-on-surface-variant);
     }
-    .invalid {
+    .invalid,
+    .changed {
       color: var(--mat-sys-error);
     }
     .readonly {

@@ -1,7 +1,7 @@
 import type { StudyRole } from '../../../shared/roles';
 import type { ImportErrorKind, ImportRowError, PlanBody, RunFields } from '../../../shared/runs';
 import type { CellValue, Run, SheetValue } from '../../../shared/run-sheet';
-import type { StudyStatus } from '../../../shared/studies';
+import type { ApprovalState, StudyStatus } from '../../../shared/studies';
 
 /**
  * The shapes the studies API answers with (docs/api-studies.md). Request bodies come from
@@ -32,6 +32,8 @@ export interface StudySummary {
   createdAt: number;
   updatedAt: number;
   progress: Progress;
+  /** set while the study is approved */
+  approval: ApprovalState | null;
 }
 
 export interface Level {
