@@ -19,6 +19,8 @@ describe('run-sheet column layout', () => {
       run(2, { centrePoint: true, settings: { W: '0.55', A: '45' }, outcomeId: 9, outcomeReason: 'cracked at the root', excluded: true, attachmentCount: 3, version: 4 }),
       run(3, { removedAt: 1_796_000_100_000, removedReason: 'duplicate specimen', excluded: true, settings: { W: '0.5' } }),
       run(4, { testedOn: '2026-11-30', values: { r: { text: '-0', value: -0, outOfRange: false } } }),
+      // ids, run orders and save times that step backwards (delta-coded columns)
+      run(5, { id: 7, runOrder: 2, updatedAt: 1_700_000_000_000 }),
     ];
     const back = decodeRunColumns(JSON.parse(JSON.stringify(encodeRunColumns(rows))));
     // JSON turns -0 into 0 in both layouts alike; compare against the row layout after the same trip
