@@ -1,10 +1,10 @@
 import type { BoxplotSeriesOption, LineSeriesOption, ScatterSeriesOption } from 'echarts/charts';
 import type { GridComponentOption } from 'echarts/components';
-import type { XAXisComponentOption, YAXisComponentOption } from 'echarts';
+import type { XAXisComponentOption } from 'echarts';
 import jstatPkg from 'jstat';
 import { quantileSorted } from 'simple-statistics';
 import { type ChartTheme, seriesColor } from './chart-theme';
-import { type ChartOption, baseText, esc, levelAxisStyle, paddedExtent, tooltipStyle, valueAxisStyle } from './chart-kit';
+import { type ChartOption, baseText, esc, levelAxisStyle, paddedExtent, sharedValueAxes, tooltipStyle, valueAxisStyle } from './chart-kit';
 import { formatNumber } from './format';
 
 // jstat exposes a default export under Node ESM and bundlers alike (STACK.md pitfall 7). Its normal
@@ -45,17 +45,7 @@ export function boxPlotOption(factors: readonly FactorSpread[], responseLabel: s
   const extent = paddedExtent(factors.flatMap((f) => f.levels.flatMap((l) => l.values)));
   const grid: GridComponentOption[] = factors.map((_, i) => ({ left: `${9 + i * span}%`, width: `${span - 3}%`, top: 16, bottom: 48 }));
   const xAxis: XAXisComponentOption[] = factors.map((f, i) => ({ type: 'category', gridIndex: i, name: f.label, data: f.levels.map((l) => l.level), ...levelAxisStyle(theme) }));
-  const yAxis: YAXisComponentOption[] = factors.map((_, i) => ({
-    type: 'value',
-    gridIndex: i,
-    min: extent.min,
-    max: extent.max,
-    name: i === 0 ? responseLabel : '',
-    nameLocation: 'middle',
-    nameGap: 48,
-    ...valueAxisStyle(theme),
-    axisLabel: { ...valueAxisStyle(theme).axisLabel, show: i === 0 },
-  }));
+  const yAxis = sharedValueAxes(factors.length, extent, responseLabel, theme);
   const box = seriesColor(theme, 0);
   const dot = seriesColor(theme, 1);
   const series: (BoxplotSeriesOption | ScatterSeriesOption)[] = factors.flatMap((f, i) => {

@@ -8,7 +8,7 @@ import type {
   TooltipComponentOption,
 } from 'echarts/components';
 import type { ComposeOption } from 'echarts/core';
-import type { CustomSeriesRenderItemAPI, CustomSeriesRenderItemParams, CustomSeriesRenderItemReturn } from 'echarts';
+import type { CustomSeriesRenderItemAPI, CustomSeriesRenderItemParams, CustomSeriesRenderItemReturn, YAXisComponentOption } from 'echarts';
 import type { ChartTheme } from './chart-theme';
 import { formatNumber } from './format';
 
@@ -74,6 +74,24 @@ export function valueAxisStyle(theme: ChartTheme) {
     splitLine: { lineStyle: { color: theme.guide, type: [2, 4] as number[] } },
     nameTextStyle: { color: theme.muted, fontFamily: theme.fontFamily },
   };
+}
+
+/**
+ * One value axis per panel of a row of small multiples, all on the same scale so panels compare at a
+ * glance; only the first carries the response name and tick labels.
+ */
+export function sharedValueAxes(panels: number, extent: { min: number; max: number }, responseLabel: string, theme: ChartTheme): YAXisComponentOption[] {
+  return Array.from({ length: panels }, (_, i) => ({
+    type: 'value' as const,
+    gridIndex: i,
+    min: extent.min,
+    max: extent.max,
+    name: i === 0 ? responseLabel : '',
+    nameLocation: 'middle' as const,
+    nameGap: 48,
+    ...valueAxisStyle(theme),
+    axisLabel: { ...valueAxisStyle(theme).axisLabel, show: i === 0 },
+  }));
 }
 
 /** Category-like axis: a solid baseline, short outward ticks, the factor name underneath. */

@@ -1,6 +1,6 @@
 import type { CustomSeriesOption, LineSeriesOption } from 'echarts/charts';
 import type { GridComponentOption } from 'echarts/components';
-import type { XAXisComponentOption, YAXisComponentOption } from 'echarts';
+import type { XAXisComponentOption } from 'echarts';
 import type { TooltipComponentFormatterCallbackParams } from 'echarts';
 import type { PlotPoint } from '../../../shared/analysis';
 import { type ChartTheme, seriesColor, seriesDash, seriesSymbol } from './chart-theme';
@@ -13,6 +13,7 @@ import {
   legendStyle,
   levelAxisStyle,
   paddedExtent,
+  sharedValueAxes,
   tooltipStyle,
   valueAxisStyle,
 } from './chart-kit';
@@ -74,17 +75,7 @@ export function mainEffectsOption(effects: readonly MainEffectInput[], grandMean
     boundaryGap: true,
     ...levelAxisStyle(theme),
   }));
-  const yAxis: YAXisComponentOption[] = effects.map((_, i) => ({
-    type: 'value',
-    gridIndex: i,
-    min: extent.min,
-    max: extent.max,
-    name: i === 0 ? responseLabel : '',
-    nameLocation: 'middle',
-    nameGap: 48,
-    ...valueAxisStyle(theme),
-    axisLabel: { ...valueAxisStyle(theme).axisLabel, show: i === 0 },
-  }));
+  const yAxis = sharedValueAxes(effects.length, extent, responseLabel, theme);
   const color = seriesColor(theme, 0);
   const series: (LineSeriesOption | CustomSeriesOption)[] = effects.flatMap((e, i) => [
     {
