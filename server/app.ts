@@ -79,7 +79,8 @@ export function createApp(ctx: AppContext): { app: Express; api: Router } {
   api.use(pp.initialize());
   api.use(bearerAuth(ctx));
   api.use(tokenUseAudit(ctx));
-  api.use((req, res, next) => (req.authViaToken ? next() : pp.session()(req, res, next)));
+  const sessionUser = pp.session(); // built once: pp.session() makes a new middleware on every call
+  api.use((req, res, next) => (req.authViaToken ? next() : sessionUser(req, res, next)));
   api.use(csrfProtection);
   api.use(systemRouter(ctx));
   api.use(authRouter(ctx, pp));
